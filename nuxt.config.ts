@@ -1,0 +1,43 @@
+// Bandlight — Nuxt configuration. Files live at the repository root (srcDir '.'),
+// there is no app/ folder. Nothing is fetched from outside at build or run time.
+export default defineNuxtConfig({
+  compatibilityDate: '2025-07-15',
+  srcDir: '.',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@nuxt/eslint'],
+  css: ['~/assets/css/main.css'],
+  tailwindcss: {
+    cssPath: false,
+    configPath: 'tailwind.config.ts',
+    viewer: false,
+  },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Bandlight',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'Calibration records and certificates for radiation thermometry laboratories' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  runtimeConfig: {
+    // Read at run time from NUXT_SESSION_PASSWORD (scripts/demo.ts creates one when missing).
+    session: {
+      name: 'bandlight-session',
+      password: '',
+      maxAge: 60 * 60 * 12,
+    },
+  },
+  nitro: {
+    experimental: { tasks: true },
+  },
+  typescript: {
+    strict: true,
+  },
+  eslint: {
+    config: { stylistic: false },
+  },
+})

@@ -1,0 +1,47 @@
+/**
+ * npm run demo — build if needed, migrate, seed the invented demo laboratory and
+ * start the built server on PORT (default 3000) with DATABASE_URL.
+ */
+import crypto from 'node:crypto'
+import fs from 'node:fs'
+import path from 'node:path'
+import { buildIsStale, run, startServer } from './lib/server'
+import { DEFAULT_DATABASE_URL, databasePath } from '../server/utils/db'
+
+const port = Number(process.env.PORT) || 3000
+const databaseUrl = process.env.DATABASE_URL || DEFAULT_DATABASE_URL
+const dbFile = databasePath(databaseUrl)
+
+if (buildIsStale()) {
+  console.log('Building Bandlight (the sources are newer than .output)…')
+  const code = await run('npx', ['nuxt', 'build'])
+  if (code !== 0) process.exit(code)
+}
+
+// A session secret that survives restarts, kept beside the database unless one is given.
+let sessionPassword = process.env.NUXT_SESSION_PASSWORD
+if (!sessionPassword) {
+  const secretFile = path.join(dbFile === ':memory:' ? path.resolve('data') : path.dirname(dbFile), '.session-secret')
+  fs.mkdirSync(path.dirname(secretFile), { recursive: true })
+  if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, crypto.randomBytes(32).toString('hex'), { mode: 0o600 })
+  sessionPassword = fs.readFileSync(secretFile, 'utf8').trim()
+}
+
+const env = { ...process.env, DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, BANDLIGHT_SEED: 'demo' }
+const server = await startServer(env, port)
+
+console.log(`
+  Bandlight demo is running at http://localhost:${port}
+  Database: ${dbFile}
+
+  Demo accounts (password for each: bandlight-demo — demo only, change them on a real installation)
+    admin@bandlight.test        administrator
+    technician@bandlight.test   technician
+    quality@bandlight.test      quality manager
+    customer@bandlight.test     customer (Kestrelmoor Foundry Ltd)
+
+  Press Ctrl+C to stop.
+`)
+
+for (const sig of ['SIGINT', 'SIGTERM'] as const) process.on(sig, () => server.kill(sig))
+server.on('exit', code => process.exit(code ?? 0))

@@ -1,0 +1,41 @@
+/**
+ * Runs the API and browser tests against one built server on a free port with a
+ * temporary database seeded with the demo scenario. `npm test` builds first.
+ */
+import crypto from 'node:crypto'
+import fs from 'node:fs'
+import os from 'node:os'
+import path from 'node:path'
+import { SERVER_ENTRY, freePort, run, startServer } from './lib/server'
+
+if (!fs.existsSync(SERVER_ENTRY)) {
+  console.error('No .output — run `npm run build` first.')
+  process.exit(1)
+}
+
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-test-'))
+const port = await freePort()
+const env = {
+  ...process.env,
+  DATABASE_URL: `sqlite:${path.join(dir, 'test.sqlite')}`,
+  NUXT_SESSION_PASSWORD: crypto.randomBytes(32).toString('hex'),
+  BANDLIGHT_SEED: 'demo',
+  TRUST_PROXY: '1',
+  BANDLIGHT_DATA_DIR: path.join(dir, 'files'),
+}
+const server = await startServer(env, port, { quiet: true })
+let code = 1
+try {
+  const projects = process.argv.slice(2).length ? process.argv.slice(2) : ['api', 'e2e']
+  code = await run('npx', ['vitest', 'run', ...projects.flatMap(p => ['--project', p])], {
+    ...env,
+    BASE_URL: `http://127.0.0.1:${port}`,
+    TEST_DATA_DIR: dir,
+  })
+}
+finally {
+  server.kill('SIGTERM')
+  await new Promise(r => setTimeout(r, 300))
+  fs.rmSync(dir, { recursive: true, force: true })
+}
+process.exit(code)

@@ -1,0 +1,30 @@
+import { idParamSchema } from '../../../../../shared/schemas/common'
+import { activeFlagSchema } from '../../../../../shared/schemas/user'
+import { Organization } from '../../../../models/Organization'
+import { User } from '../../../../models/User'
+import { notFound, requireRole } from '../../../../utils/access'
+import { recordAudit, snapshot } from '../../../../utils/audit'
+import { userDTO } from '../../../../utils/present'
+import { inTransaction } from '../../../../utils/transaction'
+import { parseWith } from '../../../../utils/validation'
+
+/** Deactivate (or reactivate) a user. Users are never deleted. */
+export default defineEventHandler(async (event) => {
+  const admin = await requireRole(event, 'admin')
+  const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
+  const { active } = await readValidatedBody(event, parseWith(activeFlagSchema))
+  if (id === admin.id && !active) {
+    throw createError({ statusCode: 400, statusMessage: 'Validation Error', message: 'Invalid input: active: You cannot deactivate yourself', data: { fields: { active: 'You cannot deactivate yourself' } } })
+  }
+  await inTransaction(async (t) => {
+    const user = await User.findByPk(id, { transaction: t })
+    if (!user) notFound('user')
+    if (user.active === active) return
+    const before = snapshot(user)
+    user.active = active
+    await user.save({ transaction: t })
+    await recordAudit(t, { userId: admin.id, action: active ? 'reactivate' : 'deactivate', entity: 'User', entityId: user.id, before, after: snapshot(user) })
+  })
+  const user = await User.findByPk(id, { include: [{ model: Organization, as: 'organization' }] })
+  return userDTO(user!)
+})

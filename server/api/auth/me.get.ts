@@ -1,0 +1,5 @@
+import { requireRole } from '../../utils/access'
+
+export default defineEventHandler(async (event) => {
+  return await requireRole(event)
+})

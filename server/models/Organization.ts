@@ -1,0 +1,27 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
+import { sequelize } from '../utils/db'
+
+/** A customer company. The laboratory itself is configured once and is not a row here. */
+export class Organization extends Model<InferAttributes<Organization>, InferCreationAttributes<Organization>> {
+  declare id: CreationOptional<number>
+  declare name: string
+  /** Addresses that receive certificates and reminders. */
+  declare contactEmails: CreationOptional<string[]>
+  declare active: CreationOptional<boolean>
+  declare version: CreationOptional<number>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+Organization.init(
+  {
+    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+    name: { type: DataTypes.STRING(160), allowNull: false, unique: true },
+    contactEmails: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
+    active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+    version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+    createdAt: DataTypes.DATE,
+    updatedAt: DataTypes.DATE,
+  },
+  { sequelize, tableName: 'organizations', version: true },
+)

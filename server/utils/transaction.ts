@@ -1,0 +1,49 @@
+import type { Transaction } from 'sequelize'
+import { ForeignKeyConstraintError, OptimisticLockError, UniqueConstraintError, ValidationError } from 'sequelize'
+import { sequelize } from './db'
+
+/**
+ * Run a change in one transaction and turn the database's refusals into 4xx answers:
+ * a unique clash → 409 naming the field; a concurrent update → 409; a dangling
+ * reference → 400 naming the field.
+ */
+export async function inTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
+  try {
+    return await sequelize.transaction(fn)
+  }
+  catch (err) {
+    if (err instanceof UniqueConstraintError) {
+      const field = err.errors[0]?.path ?? 'body'
+      throw createError({
+        statusCode: 409,
+        statusMessage: 'Conflict',
+        message: `${field} is already in use`,
+        data: { fields: { [field]: 'Already in use' } },
+      })
+    }
+    if (err instanceof OptimisticLockError) throw staleRecord()
+    if (err instanceof ForeignKeyConstraintError) {
+      const field = (err.fields as string[] | undefined)?.[0] ?? 'body'
+      throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'Refers to a record that does not exist', data: { fields: { [field]: 'No such record' } } })
+    }
+    if (err instanceof ValidationError) {
+      const fields = Object.fromEntries(err.errors.map(e => [e.path ?? 'body', e.message]))
+      throw createError({ statusCode: 400, statusMessage: 'Validation Error', message: err.message, data: { fields } })
+    }
+    throw err
+  }
+}
+
+export function staleRecord() {
+  return createError({
+    statusCode: 409,
+    statusMessage: 'Conflict',
+    message: 'Someone else changed this record after you opened it. Reload it and apply your change again.',
+    data: { fields: { version: 'Stale version' } },
+  })
+}
+
+/** 409 unless the client's version is the stored one. */
+export function assertVersion(stored: number, seen: number): void {
+  if (stored !== seen) throw staleRecord()
+}

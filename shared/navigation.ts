@@ -1,0 +1,33 @@
+import type { Role } from './roles'
+
+export interface NavItem {
+  /** Route path. */
+  to: string
+  label: string
+  /** Roles that may use the page; the server checks the same roles in its routes. */
+  roles: readonly Role[]
+  /** Group heading in the side rail. */
+  group: 'Work' | 'Administration'
+}
+
+/** Every page of the product and who may use it: the layout shows each role its own items. */
+export const NAV_ITEMS: readonly NavItem[] = [
+  { to: '/', label: 'Overview', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
+  { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
+  { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
+  { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },
+]
+
+export function navFor(role: Role): NavItem[] {
+  return NAV_ITEMS.filter(item => item.roles.includes(role))
+}
+
+/** The roles allowed on a path, by the longest matching nav prefix; undefined = any signed-in user. */
+export function rolesForPath(path: string): readonly Role[] | undefined {
+  let best: NavItem | undefined
+  for (const item of NAV_ITEMS) {
+    if (item.to === '/') continue
+    if ((path === item.to || path.startsWith(item.to + '/')) && (!best || item.to.length > best.to.length)) best = item
+  }
+  return best?.roles
+}

@@ -1,0 +1,6 @@
+export * from './common'
+export * from './auth'
+export * from './user'
+export * from './organization'
+export * from './audit'
+export * from './errors'

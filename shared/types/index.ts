@@ -1,0 +1,53 @@
+import type { Role } from '../roles'
+
+/** What the session and GET /api/auth/me carry about the signed-in user. */
+export interface SessionUser {
+  id: number
+  name: string
+  email: string
+  role: Role
+  organizationId: number | null
+}
+
+/** A user as the administration API returns it (never the password hash). */
+export interface UserDTO extends SessionUser {
+  active: boolean
+  version: number
+  createdAt: string
+  updatedAt: string
+  organizationName: string | null
+}
+
+export interface OrganizationDTO {
+  id: number
+  name: string
+  contactEmails: string[]
+  active: boolean
+  version: number
+  createdAt: string
+  updatedAt: string
+}
+
+export interface AuditEventDTO {
+  id: number
+  at: string
+  userId: number | null
+  userName: string | null
+  action: string
+  entity: string
+  entityId: number | null
+  before: unknown
+  after: unknown
+}
+
+export interface Page<T> {
+  rows: T[]
+  total: number
+  page: number
+  pageSize: number
+}
+
+/** Body of every 4xx answer from a validated route: `data.fields` names each field at fault. */
+export interface FieldErrors {
+  [field: string]: string
+}
