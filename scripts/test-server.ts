@@ -29,7 +29,7 @@ try {
   const projects = process.argv.slice(2).length ? process.argv.slice(2) : ['api', 'e2e']
   code = await run('npx', ['vitest', 'run', ...projects.flatMap(p => ['--project', p])], {
     ...env,
-    BASE_URL: `http://127.0.0.1:${port}`,
+    BANDLIGHT_TEST_URL: `http://127.0.0.1:${port}`,
     TEST_DATA_DIR: dir,
   })
 }

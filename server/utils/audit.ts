@@ -33,8 +33,9 @@ export async function recordAudit(transaction: Transaction, entry: AuditEntry): 
 
 /** A plain copy of a record's attributes for the audit trail, without secret fields. */
 export function snapshot(record: { get: (o: { plain: true }) => object }, omit: readonly string[] = ['passwordHash']): Record<string, unknown> {
-  const plain = { ...(record.get({ plain: true }) as Record<string, unknown>) }
-  for (const key of omit) delete plain[key]
-  for (const [k, v] of Object.entries(plain)) if (v instanceof Date) plain[k] = v.toISOString()
-  return plain
+  return Object.fromEntries(
+    Object.entries(record.get({ plain: true }))
+      .filter(([k]) => !omit.includes(k))
+      .map(([k, v]) => [k, v instanceof Date ? v.toISOString() : v]),
+  )
 }

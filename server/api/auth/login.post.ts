@@ -17,7 +17,7 @@ export default defineEventHandler(async (event) => {
 
   const wait = throttledFor(email, address)
   if (wait > 0) {
-    setResponseHeader(event, 'Retry-After', String(wait))
+    setResponseHeader(event, 'Retry-After', wait)
     throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: `Too many failed sign-ins. Try again in ${Math.ceil(wait / 60)} min.` })
   }
 

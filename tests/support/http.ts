@@ -1,0 +1,76 @@
+/**
+ * A small HTTP client for the API tests: keeps the session cookie like a browser
+ * would, and returns status, headers and parsed JSON.
+ */
+import type { Role } from '../../shared/roles'
+
+export const BASE_URL = process.env.BANDLIGHT_TEST_URL ?? 'http://127.0.0.1:3000'
+export const DEMO_PASSWORD = 'bandlight-demo'
+export const DEMO_ACCOUNTS: Record<Role, string> = {
+  admin: 'admin@bandlight.test',
+  technician: 'technician@bandlight.test',
+  quality: 'quality@bandlight.test',
+  customer: 'customer@bandlight.test',
+}
+
+export interface Reply<T = any> { // eslint-disable-line @typescript-eslint/no-explicit-any
+  status: number
+  headers: Headers
+  body: T
+}
+
+export class Client {
+  private cookies = new Map<string, string>()
+  constructor(private readonly extraHeaders: Record<string, string> = {}) {}
+
+  async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Reply<T>> { // eslint-disable-line @typescript-eslint/no-explicit-any
+    const h: Record<string, string> = { accept: 'application/json', ...this.extraHeaders, ...headers }
+    if (this.cookies.size) h.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+    let payload: string | undefined
+    if (body !== undefined) {
+      payload = typeof body === 'string' ? body : JSON.stringify(body)
+      h['content-type'] ??= 'application/json'
+    }
+    const res = await fetch(BASE_URL + path, { method, headers: h, body: payload, redirect: 'manual' })
+    for (const c of res.headers.getSetCookie()) {
+      const [pair] = c.split(';')
+      const i = pair!.indexOf('=')
+      const name = pair!.slice(0, i)
+      const value = pair!.slice(i + 1)
+      if (!value || /Max-Age=0|Expires=Thu, 01 Jan 1970/i.test(c)) this.cookies.delete(name)
+      else this.cookies.set(name, value)
+    }
+    const text = await res.text()
+    let parsed: unknown = text
+    try {
+      parsed = text ? JSON.parse(text) : null
+    }
+    catch {
+      // not JSON
+    }
+    return { status: res.status, headers: res.headers, body: parsed as T }
+  }
+
+  get<T = any>(path: string) { return this.request<T>('GET', path) } // eslint-disable-line @typescript-eslint/no-explicit-any
+  post<T = any>(path: string, body?: unknown) { return this.request<T>('POST', path, body ?? {}) } // eslint-disable-line @typescript-eslint/no-explicit-any
+  patch<T = any>(path: string, body?: unknown) { return this.request<T>('PATCH', path, body ?? {}) } // eslint-disable-line @typescript-eslint/no-explicit-any
+
+  async login(email: string, password = DEMO_PASSWORD): Promise<Reply> {
+    return this.request('POST', '/api/auth/login', { email, password })
+  }
+}
+
+/** A client signed in as the demo account of a role (throws if sign-in fails). */
+export async function signedIn(role: Role): Promise<Client> {
+  const c = new Client()
+  const r = await c.login(DEMO_ACCOUNTS[role])
+  if (r.status !== 200) throw new Error(`demo sign-in as ${role} failed: ${r.status} ${JSON.stringify(r.body)}`)
+  return c
+}
+
+let counter = 0
+/** A unique suffix for records made by a test. */
+export function unique(prefix = 't'): string {
+  counter++
+  return `${prefix}${Date.now().toString(36)}${counter}${Math.floor(Math.random() * 1e4)}`
+}
