@@ -3,7 +3,9 @@
  * bundles them and scripts run the same list. Add a new file and one line here.
  */
 import * as m0001 from './0001-foundation'
+import * as m0002 from './0002-registers'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
+  { name: '0002-registers', ...m0002 },
 ]

@@ -10,6 +10,7 @@ import { Organization } from '../models/Organization'
 import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
 import { sequelize } from './db'
+import { seedRegisters } from './seedRegisters'
 
 /** The demo password of every demo account (demo only — change it on a real installation). */
 export const DEMO_PASSWORD = 'bandlight-demo'
@@ -61,6 +62,7 @@ export async function seedDemo(): Promise<string> {
       await recordAudit(t, { userId: null, action: 'seed', entity: 'User', entityId: user.id, after: snapshot(user) })
       created++
     }
+    created += await seedRegisters(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'
 }

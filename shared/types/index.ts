@@ -51,3 +51,5 @@ export interface Page<T> {
 export interface FieldErrors {
   [field: string]: string
 }
+
+export type * from './registers'

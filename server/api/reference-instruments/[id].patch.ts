@@ -1,0 +1,13 @@
+import { idParamSchema } from '../../../shared/schemas/common'
+import { referenceUpdateSchema } from '../../../shared/schemas/referenceInstrument'
+import { requireRole } from '../../utils/access'
+import { REFERENCE_REGISTER, updateEquipment } from '../../utils/registersEquipment'
+import { parseWith } from '../../utils/validation'
+
+/** Edit a reference instrument (409 when the version is stale; the merged record is re-checked). */
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'quality', 'admin')
+  const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
+  const input = await readValidatedBody(event, parseWith(referenceUpdateSchema))
+  return await updateEquipment(REFERENCE_REGISTER, user, id, input)
+})

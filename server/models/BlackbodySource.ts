@@ -1,0 +1,62 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
+import type { EquipmentStatus, SourceKind } from '../../shared/registers/constants'
+import { sequelize } from '../utils/db'
+
+/**
+ * A blackbody reference source of the laboratory (ISO/IEC 17025 6.4). Temperatures in kelvin,
+ * the aperture in mm, the emissivity with its standard uncertainty over the band it applies to.
+ * Its calibrations are `EquipmentCalibration` rows with equipmentType 'source'. Archived, never deleted.
+ */
+export class BlackbodySource extends Model<InferAttributes<BlackbodySource>, InferCreationAttributes<BlackbodySource>> {
+  declare id: CreationOptional<number>
+  declare assetTag: string
+  declare kind: SourceKind
+  declare maker: string
+  declare model: string
+  declare serial: string
+  declare apertureMm: number
+  declare minTemperatureK: number
+  declare maxTemperatureK: number
+  declare emissivity: number
+  declare emissivityU: number
+  declare emissivityBandLambda1Um: number | null
+  declare emissivityBandLambda2Um: number | null
+  declare uniformityK: number
+  declare stabilityK: number
+  /** `[setPointK, correctionK]` rows from the source's certificate. */
+  declare corrections: CreationOptional<[number, number][]>
+  declare status: CreationOptional<EquipmentStatus>
+  declare notes: string | null
+  declare archived: CreationOptional<boolean>
+  declare version: CreationOptional<number>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+BlackbodySource.init(
+  {
+    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+    assetTag: { type: DataTypes.STRING(60), allowNull: false, unique: true },
+    kind: { type: DataTypes.STRING(20), allowNull: false },
+    maker: { type: DataTypes.STRING(120), allowNull: false },
+    model: { type: DataTypes.STRING(120), allowNull: false },
+    serial: { type: DataTypes.STRING(80), allowNull: false },
+    apertureMm: { type: DataTypes.DOUBLE, allowNull: false },
+    minTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
+    maxTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
+    emissivity: { type: DataTypes.DOUBLE, allowNull: false },
+    emissivityU: { type: DataTypes.DOUBLE, allowNull: false },
+    emissivityBandLambda1Um: { type: DataTypes.DOUBLE, allowNull: true },
+    emissivityBandLambda2Um: { type: DataTypes.DOUBLE, allowNull: true },
+    uniformityK: { type: DataTypes.DOUBLE, allowNull: false },
+    stabilityK: { type: DataTypes.DOUBLE, allowNull: false },
+    corrections: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
+    status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'in-service' },
+    notes: { type: DataTypes.TEXT, allowNull: true },
+    archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+    version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+    createdAt: DataTypes.DATE,
+    updatedAt: DataTypes.DATE,
+  },
+  { sequelize, tableName: 'blackbody_sources', version: true },
+)

@@ -1,0 +1,78 @@
+/**
+ * Fixed vocabularies of the registers (blackbody sources, reference instruments,
+ * customers' instruments, uploads), with their labels for the UI. One list each,
+ * used by the zod schemas, the models and the pages.
+ */
+
+export const SOURCE_KINDS = ['cavity', 'flat-plate'] as const
+export type SourceKind = (typeof SOURCE_KINDS)[number]
+
+/** Status of the laboratory's own reference equipment (sources and reference instruments). */
+export const EQUIPMENT_STATUSES = ['in-service', 'out-of-service', 'quarantined'] as const
+export type EquipmentStatus = (typeof EQUIPMENT_STATUSES)[number]
+
+export const REFERENCE_KINDS = ['contact-thermometer', 'transfer-radiation-thermometer', 'hygrometer', 'ambient-sensor'] as const
+export type ReferenceKind = (typeof REFERENCE_KINDS)[number]
+
+/** Units a reference instrument's range and uncertainty are stated in: kelvin, or percent relative humidity. */
+export const RANGE_UNITS = ['K', '%RH'] as const
+export type RangeUnit = (typeof RANGE_UNITS)[number]
+
+export const EQUIPMENT_TYPES = ['source', 'reference'] as const
+export type EquipmentType = (typeof EQUIPMENT_TYPES)[number]
+
+export const INSTRUMENT_KINDS = ['spot-infrared', 'fixed-pyrometer', 'fibre-optic-pyrometer', 'ratio-pyrometer', 'thermal-imager'] as const
+export type InstrumentKind = (typeof INSTRUMENT_KINDS)[number]
+
+export const INSTRUMENT_STATUSES = ['active', 'out-of-service', 'retired'] as const
+export type InstrumentStatus = (typeof INSTRUMENT_STATUSES)[number]
+
+export const UPLOAD_PURPOSES = ['equipment-certificate', 'responsivity', 'instrument-photo'] as const
+export type UploadPurpose = (typeof UPLOAD_PURPOSES)[number]
+
+/** Content types the server recognizes by their bytes (never by the name or the client's claim). */
+export const UPLOAD_TYPES = ['application/pdf', 'image/png', 'image/jpeg', 'text/csv'] as const
+export type UploadType = (typeof UPLOAD_TYPES)[number]
+
+/** Which detected content types each purpose accepts. */
+export const UPLOAD_TYPES_BY_PURPOSE: Record<UploadPurpose, readonly UploadType[]> = {
+  'equipment-certificate': ['application/pdf', 'image/png', 'image/jpeg'],
+  'responsivity': ['text/csv'],
+  'instrument-photo': ['image/png', 'image/jpeg'],
+}
+
+/** Columns a list may be sorted by (whitelists: anything else is a 400). */
+export const SOURCE_SORTS = ['assetTag', 'kind', 'maker', 'model', 'serial', 'status', 'minTemperatureK', 'maxTemperatureK', 'emissivity', 'dueDate', 'updatedAt'] as const
+export const REFERENCE_SORTS = ['assetTag', 'kind', 'maker', 'model', 'serial', 'status', 'rangeMin', 'rangeMax', 'dueDate', 'updatedAt'] as const
+export const INSTRUMENT_SORTS = ['serial', 'assetTag', 'maker', 'model', 'kind', 'status', 'nextDueDate', 'rangeMinK', 'rangeMaxK', 'createdAt', 'updatedAt'] as const
+export const CUSTOMER_SORTS = ['name', 'city', 'country', 'createdAt', 'updatedAt'] as const
+
+export const SOURCE_KIND_LABELS: Record<SourceKind, string> = { 'cavity': 'Cavity', 'flat-plate': 'Flat plate' }
+export const EQUIPMENT_STATUS_LABELS: Record<EquipmentStatus, string> = {
+  'in-service': 'In service',
+  'out-of-service': 'Out of service',
+  'quarantined': 'Quarantined',
+}
+export const REFERENCE_KIND_LABELS: Record<ReferenceKind, string> = {
+  'contact-thermometer': 'Contact thermometer',
+  'transfer-radiation-thermometer': 'Transfer radiation thermometer',
+  'hygrometer': 'Hygrometer',
+  'ambient-sensor': 'Ambient sensor',
+}
+export const INSTRUMENT_KIND_LABELS: Record<InstrumentKind, string> = {
+  'spot-infrared': 'Spot infrared thermometer',
+  'fixed-pyrometer': 'Fixed pyrometer',
+  'fibre-optic-pyrometer': 'Fibre-optic pyrometer',
+  'ratio-pyrometer': 'Ratio pyrometer',
+  'thermal-imager': 'Thermal imager',
+}
+export const INSTRUMENT_STATUS_LABELS: Record<InstrumentStatus, string> = {
+  'active': 'Active',
+  'out-of-service': 'Out of service',
+  'retired': 'Retired',
+}
+export const UPLOAD_PURPOSE_LABELS: Record<UploadPurpose, string> = {
+  'equipment-certificate': 'Certificate of reference equipment',
+  'responsivity': 'Spectral responsivity table',
+  'instrument-photo': 'Photo of an instrument label',
+}

@@ -1,0 +1,196 @@
+// What the register routes return (sources, reference instruments, customers, instruments,
+// responsivity tables, uploads). Dates of calibration and due dates are `YYYY-MM-DD`;
+// timestamps are ISO 8601 date-times.
+import type {
+  EquipmentStatus,
+  EquipmentType,
+  InstrumentKind,
+  InstrumentStatus,
+  RangeUnit,
+  ReferenceKind,
+  SourceKind,
+  UploadPurpose,
+} from '../registers/constants'
+import type { AccuracySpec } from '../schemas/instrument'
+import type { AuditEventDTO, OrganizationDTO } from './index'
+
+export interface EquipmentCalibrationDTO {
+  id: number
+  equipmentType: EquipmentType
+  equipmentId: number
+  provider: string
+  certificateNumber: string
+  calibrationDate: string
+  dueDate: string
+  results: string | null
+  /** The certificate file (GET /api/uploads/[id]), when one was uploaded. */
+  uploadId: number | null
+  version: number
+  createdAt: string
+}
+
+/** Fields every piece of reference equipment carries. */
+interface EquipmentCommon {
+  id: number
+  assetTag: string
+  maker: string
+  model: string
+  serial: string
+  status: EquipmentStatus
+  notes: string | null
+  archived: boolean
+  /** Date of the latest external calibration, or null when none is recorded. */
+  lastCalibrationDate: string | null
+  /** Due date of the latest calibration (the current due date), or null. */
+  dueDate: string | null
+  /** True when `dueDate` is before today. */
+  pastDue: boolean
+  version: number
+  createdAt: string
+  updatedAt: string
+}
+
+export interface BlackbodySourceDTO extends EquipmentCommon {
+  kind: SourceKind
+  apertureMm: number
+  minTemperatureK: number
+  maxTemperatureK: number
+  emissivity: number
+  emissivityU: number
+  emissivityBandLambda1Um: number | null
+  emissivityBandLambda2Um: number | null
+  uniformityK: number
+  stabilityK: number
+  /** Certificate's set-point corrections `[setPointK, correctionK]`, set-points increasing. */
+  corrections: [number, number][]
+}
+
+export interface ReferenceInstrumentDTO extends EquipmentCommon {
+  kind: ReferenceKind
+  rangeMin: number
+  rangeMax: number
+  rangeUnit: RangeUnit
+  standardUncertainty: number
+  uncertaintyUnit: RangeUnit
+}
+
+/** Detail routes: the record, its calibration history (newest first) and its audit trail. */
+export type EquipmentDetailDTO<T> = T & {
+  calibrations: EquipmentCalibrationDTO[]
+  audit: AuditEventDTO[]
+}
+export type BlackbodySourceDetailDTO = EquipmentDetailDTO<BlackbodySourceDTO>
+export type ReferenceInstrumentDetailDTO = EquipmentDetailDTO<ReferenceInstrumentDTO>
+
+export interface CorrectionDTO {
+  setPointK: number
+  correctionK: number
+}
+
+export interface CustomerDTO extends OrganizationDTO {
+  addressLines: string | null
+  city: string | null
+  postcode: string | null
+  country: string | null
+  /** Active contacts. */
+  contactCount: number
+}
+
+export interface ContactDTO {
+  id: number
+  organizationId: number
+  name: string
+  email: string
+  phone: string | null
+  receivesReminders: boolean
+  active: boolean
+  version: number
+  createdAt: string
+  updatedAt: string
+}
+
+export interface CustomerDetailDTO extends CustomerDTO {
+  /** All contacts, inactive ones too. */
+  contacts: ContactDTO[]
+  audit: AuditEventDTO[]
+}
+
+export interface InstrumentDTO {
+  id: number
+  organizationId: number
+  organizationName: string | null
+  serial: string
+  assetTag: string | null
+  maker: string
+  model: string
+  kind: InstrumentKind
+  bandLambda1Um: number | null
+  bandLambda2Um: number | null
+  spectralResponseId: number | null
+  spectralResponseName: string | null
+  distanceToSpot: number | null
+  rangeMinK: number
+  rangeMaxK: number
+  defaultEmissivity: number
+  resolutionK: number
+  accuracy: AccuracySpec
+  calibrationIntervalMonths: number
+  status: InstrumentStatus
+  nextDueDate: string | null
+  pastDue: boolean
+  photoUploadId: number | null
+  notes: string | null
+  archived: boolean
+  version: number
+  createdAt: string
+  updatedAt: string
+}
+
+/** GET /api/instruments/[id]. `audit` is present for laboratory roles only, never for customers. */
+export interface InstrumentDetailDTO extends InstrumentDTO {
+  spectralResponse: SpectralResponseDTO | null
+  audit?: AuditEventDTO[]
+}
+
+export interface SpectralResponseDTO {
+  id: number
+  name: string
+  /** SHA-256 (hex) of the canonical table text. */
+  sha256: string
+  /** Normalized points `[wavelengthUm, relativeResponse]`, peak 1. */
+  points: [number, number][]
+  pointCount: number
+  lambdaMinUm: number
+  lambdaMaxUm: number
+  createdAt: string
+}
+
+export interface UploadDTO {
+  id: number
+  sha256: string
+  size: number
+  /** Detected from the content, not from the name or the client. */
+  mimeType: string
+  originalName: string
+  purpose: UploadPurpose
+  organizationId: number | null
+  uploadedBy: number | null
+  createdAt: string
+}
+
+/** One CSV row in an import preview: `line` is its line in the file, `errors` maps field → message. */
+export interface ImportPreviewRow {
+  line: number
+  data: Record<string, unknown>
+  errors: Record<string, string>
+}
+
+export interface ImportPreview {
+  rows: ImportPreviewRow[]
+  valid: number
+  invalid: number
+}
+
+export interface ImportResult {
+  created: number
+}
