@@ -1,3 +1,23 @@
+import { fileURLToPath } from 'node:url'
+import { buildSync } from 'esbuild'
+
+/**
+ * The Monte Carlo worker, bundled to one CommonJS string at build time so the built server
+ * can start it with `new Worker(code, { eval: true })` (server/utils/monteCarlo.ts).
+ */
+function monteCarloWorkerSource(): string {
+  const result = buildSync({
+    entryPoints: [fileURLToPath(new URL('./server/workers/readingMonteCarlo.ts', import.meta.url))],
+    bundle: true,
+    platform: 'node',
+    format: 'cjs',
+    target: 'node20',
+    write: false,
+    logLevel: 'silent',
+  })
+  return result.outputFiles[0]!.text
+}
+
 // Bandlight — Nuxt configuration. Files live at the repository root (srcDir '.'),
 // there is no app/ folder. Nothing is fetched from outside at build or run time.
 export default defineNuxtConfig({
@@ -33,6 +53,9 @@ export default defineNuxtConfig({
   },
   nitro: {
     experimental: { tasks: true },
+    virtual: {
+      '#bandlight/mc-worker': () => `export default ${JSON.stringify(monteCarloWorkerSource())}`,
+    },
   },
   typescript: {
     strict: true,

@@ -1,5 +1,8 @@
 import type { Role } from './roles'
 
+export const NAV_GROUPS = ['Work', 'Registers', 'Administration'] as const
+export type NavGroup = (typeof NAV_GROUPS)[number]
+
 export interface NavItem {
   /** Route path. */
   to: string
@@ -7,12 +10,16 @@ export interface NavItem {
   /** Roles that may use the page; the server checks the same roles in its routes. */
   roles: readonly Role[]
   /** Group heading in the side rail. */
-  group: 'Work' | 'Administration'
+  group: NavGroup
 }
 
-/** Every page of the product and who may use it: the layout shows each role its own items. */
+/**
+ * Every page of the product and who may use it: the layout shows each role its own items.
+ * Listed in the order the rail shows them (by group, as in NAV_GROUPS), so navFor(role) reads as the rail does.
+ */
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/', label: 'Overview', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
+  { to: '/calculator', label: 'Calculator', roles: ['admin', 'technician', 'quality'], group: 'Work' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
   { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
   { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },

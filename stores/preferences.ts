@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 
-export type TemperatureUnit = 'C' | 'K' | 'F'
+import type { TemperatureUnit } from '~~/shared/units'
 
 /** Per-browser display preferences (values are always stored in SI on the server). */
 export const usePreferencesStore = defineStore('preferences', () => {

@@ -1,0 +1,144 @@
+/**
+ * Inputs of the calculation API (`/api/calculations/*`) and of the calculator page.
+ * Units: temperatures in kelvin, wavelengths in micrometres, radiance in W·m⁻²·sr⁻¹.
+ * The engine (shared/radiometry, shared/uncertainty) checks its inputs again; these
+ * schemas give the caller a field-by-field answer first.
+ */
+import { z } from 'zod'
+import { accuracySpecSchema } from './instrument'
+
+const num = (label: string) => z.number({ error: `${label} must be a number` })
+const positive = (label: string) => num(label).positive(`${label} must be above 0`)
+const kelvin = (label: string) => positive(label).max(1e5, `${label} above 100000 K is out of range`)
+const emissivity = (label: string) => num(label).gt(0, `${label} must be above 0`).max(1, `${label} cannot exceed 1`)
+
+export const rectangularBandSchema = z
+  .object({
+    kind: z.literal('rectangular'),
+    lambda1Um: positive('λ1').max(1000, 'λ1 above 1000 µm is out of range'),
+    lambda2Um: positive('λ2').max(1000, 'λ2 above 1000 µm is out of range'),
+  })
+  .refine(b => b.lambda2Um > b.lambda1Um, { path: ['lambda2Um'], message: 'λ2 must be greater than λ1' })
+
+export const tabulatedBandSchema = z
+  .object({
+    kind: z.literal('tabulated'),
+    points: z
+      .array(
+        z.tuple([positive('Wavelength').max(1000, 'Wavelength above 1000 µm is out of range'), num('Response').min(0, 'Response cannot be negative')], {
+          error: 'Each point is [wavelength µm, relative response]',
+        }),
+        { error: 'points must be a list of [wavelength, response] pairs' },
+      )
+      .min(2, 'A responsivity table needs at least two points')
+      .max(5000, 'At most 5000 points'),
+  })
+  .superRefine((b, ctx) => {
+    for (let i = 1; i < b.points.length; i++) {
+      if (!(b.points[i]![0] > b.points[i - 1]![0])) {
+        ctx.addIssue({ code: 'custom', path: ['points', i, 0], message: 'Wavelengths must increase strictly' })
+        return
+      }
+    }
+    if (b.points.every(p => p[1] === 0)) ctx.addIssue({ code: 'custom', path: ['points'], message: 'At least one response must be above 0' })
+  })
+
+/** `{ kind: 'rectangular', lambda1Um, lambda2Um }` or `{ kind: 'tabulated', points: [[λ µm, R], …] }`. */
+export const bandSchema = z.discriminatedUnion('kind', [rectangularBandSchema, tabulatedBandSchema], {
+  error: 'band.kind must be "rectangular" or "tabulated"',
+})
+export type BandInput = z.infer<typeof bandSchema>
+
+export const bandRadianceSchema = z.object({
+  band: bandSchema,
+  temperatureK: kelvin('temperatureK'),
+})
+
+export const temperatureSchema = z.object({
+  band: bandSchema,
+  radiance: positive('radiance'),
+})
+
+export const readingInputShape = {
+  band: bandSchema,
+  sourceTemperatureK: kelvin('sourceTemperatureK'),
+  sourceEmissivity: emissivity('sourceEmissivity'),
+  reflectedTemperatureK: kelvin('reflectedTemperatureK'),
+  instrumentTemperatureK: kelvin('instrumentTemperatureK'),
+  emissivitySetting: emissivity('emissivitySetting'),
+}
+export const expectedReadingSchema = z.object(readingInputShape)
+export type ExpectedReadingInput = z.infer<typeof expectedReadingSchema>
+
+export const DISTRIBUTION_NAMES = ['normal', 'rectangular', 'triangular', 'u-shaped', 'resolution'] as const
+const distributionSchema = z.enum(DISTRIBUTION_NAMES, { error: `distribution must be one of ${DISTRIBUTION_NAMES.join(', ')}` })
+
+const coverageProbabilitySchema = num('coverageProbability').gt(0, 'coverageProbability must be above 0').lt(1, 'coverageProbability must be below 1')
+
+export const budgetComponentSchema = z
+  .object({
+    name: z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120),
+    standardUncertainty: num('standardUncertainty').min(0, 'standardUncertainty cannot be negative').optional(),
+    distribution: distributionSchema.optional(),
+    halfWidth: num('halfWidth').min(0, 'halfWidth cannot be negative').optional(),
+    coverageFactor: positive('coverageFactor').optional(),
+    resolution: num('resolution').min(0, 'resolution cannot be negative').optional(),
+    sensitivity: num('sensitivity'),
+    dof: positive('dof').nullable().optional(),
+  })
+  .superRefine((c, ctx) => {
+    if (c.standardUncertainty !== undefined) return
+    if (!c.distribution) {
+      ctx.addIssue({ code: 'custom', path: ['standardUncertainty'], message: 'Give standardUncertainty, or a distribution with its half-width' })
+      return
+    }
+    if (c.distribution === 'resolution') {
+      if (c.resolution === undefined) ctx.addIssue({ code: 'custom', path: ['resolution'], message: 'Give the resolution step δ (u = δ/√12)' })
+      return
+    }
+    if (c.halfWidth === undefined) ctx.addIssue({ code: 'custom', path: ['halfWidth'], message: `A ${c.distribution} component needs halfWidth` })
+    if (c.distribution === 'normal' && c.coverageFactor === undefined) ctx.addIssue({ code: 'custom', path: ['coverageFactor'], message: 'A normal component given by its expanded uncertainty needs coverageFactor' })
+  })
+export type BudgetComponentInput = z.infer<typeof budgetComponentSchema>
+
+export const budgetSchema = z.object({
+  components: z.array(budgetComponentSchema, { error: 'components must be a list' }).min(1, 'At least one component').max(200, 'At most 200 components'),
+  coverageProbability: coverageProbabilitySchema.default(0.9545),
+})
+
+/** A Monte Carlo input distribution for one reading-model input. */
+export const mcDistributionSchema = z.discriminatedUnion('distribution', [
+  z.object({ distribution: z.literal('normal'), value: num('value'), standardUncertainty: num('standardUncertainty').min(0) }),
+  z.object({ distribution: z.enum(['rectangular', 'triangular', 'u-shaped']), value: num('value'), halfWidth: num('halfWidth').min(0) }),
+  z.object({ distribution: z.literal('constant'), value: num('value') }),
+], { error: 'distribution must be one of normal, rectangular, triangular, u-shaped, constant' })
+export type McDistributionInput = z.infer<typeof mcDistributionSchema>
+
+export const MC_MAX_TRIALS = 2_000_000
+
+export const monteCarloSchema = z.object({
+  band: bandSchema,
+  inputs: z.object({
+    sourceTemperatureK: mcDistributionSchema,
+    sourceEmissivity: mcDistributionSchema,
+    reflectedTemperatureK: mcDistributionSchema,
+    instrumentTemperatureK: mcDistributionSchema,
+    emissivitySetting: mcDistributionSchema,
+  }),
+  trials: num('trials').int('trials must be a whole number').min(1000, 'At least 1000 trials').max(MC_MAX_TRIALS, `At most ${MC_MAX_TRIALS} trials`).default(200_000),
+  seed: num('seed').int().min(0).max(0xffffffff).default(1),
+  coverageProbability: coverageProbabilitySchema.default(0.95),
+})
+export type MonteCarloRequest = z.infer<typeof monteCarloSchema>
+
+export const DECISION_RULES = ['simple-acceptance', 'guard-band', 'non-binary'] as const
+
+export const conformitySchema = z.object({
+  spec: accuracySpecSchema,
+  readingK: kelvin('readingK'),
+  error: num('error'),
+  expandedUncertainty: num('expandedUncertainty').min(0),
+  rule: z.enum(DECISION_RULES, { error: `rule must be one of ${DECISION_RULES.join(', ')}` }),
+  guardBandFactor: num('guardBandFactor').min(0).max(10).optional(),
+  percentBasis: z.enum(['celsius', 'kelvin']).optional(),
+})
