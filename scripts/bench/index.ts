@@ -1,0 +1,15 @@
+/**
+ * All benchmarks: `npm run bench` (node --import tsx scripts/bench/index.ts [--quick]).
+ * Each benchmark module exports a run function that prints its own table; add new ones here.
+ * Figures and ratios against targets are printed; nothing here fails a build.
+ */
+import { runEngineBench } from './engine'
+import { runRegistersBench } from './registers'
+import { runServerBench } from './server'
+
+const quick = process.argv.includes('--quick')
+runEngineBench({ quick })
+console.log('')
+await runRegistersBench({ quick })
+console.log('')
+await runServerBench({ quick })
