@@ -1,0 +1,42 @@
+import type { Page } from '~~/shared/types'
+
+/**
+ * State of a server-paged register list (page, size, sort, search, filters), kept in the
+ * URL so a view can be reloaded and shared, and the rows fetched for it.
+ */
+export function useRegisterList<T>(key: string, endpoint: string, defaults: { sort: string, dir?: 'asc' | 'desc', pageSize?: number, filters?: Record<string, string> }) {
+  const route = useRoute()
+  const router = useRouter()
+  const q = route.query
+  const str = (v: unknown) => (typeof v === 'string' ? v : undefined)
+
+  const state = reactive({
+    page: Number(str(q.page)) || 1,
+    pageSize: Number(str(q.pageSize)) || defaults.pageSize || 25,
+    sort: str(q.sort) ?? defaults.sort,
+    dir: (str(q.dir) as 'asc' | 'desc' | undefined) ?? defaults.dir ?? 'asc',
+    q: str(q.q) ?? '',
+    filters: Object.fromEntries(Object.keys(defaults.filters ?? {}).map(k => [k, str(q[k]) ?? defaults.filters![k]!])) as Record<string, string>,
+  })
+
+  const query = computed(() => {
+    const out: Record<string, string | number> = { page: state.page, pageSize: state.pageSize, sort: state.sort, dir: state.dir }
+    if (state.q.trim()) out.q = state.q.trim()
+    for (const [k, v] of Object.entries(state.filters)) if (v !== '') out[k] = v
+    return out
+  })
+
+  const { data, pending, error, refresh } = useFetch<Page<T>>(endpoint, { key, query, watch: [query] })
+
+  watch(query, (value) => {
+    router.replace({ query: Object.fromEntries(Object.entries(value).map(([k, v]) => [k, String(v)])) })
+  })
+
+  /** Changing a filter or the search goes back to page 1. */
+  function resetPage() {
+    state.page = 1
+  }
+
+  const pages = computed(() => Math.max(1, Math.ceil((data.value?.total ?? 0) / state.pageSize)))
+  return { state, data, pending, error, refresh, pages, resetPage, query }
+}
