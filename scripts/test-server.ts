@@ -26,8 +26,12 @@ const env = {
 const server = await startServer(env, port, { quiet: true })
 let code = 1
 try {
-  const projects = process.argv.slice(2).length ? process.argv.slice(2) : ['api', 'e2e']
-  code = await run('npx', ['vitest', 'run', ...projects.flatMap(p => ['--project', p])], {
+  // Arguments: project names (api, e2e) and/or test file filters (tests/e2e/runs).
+  const args = process.argv.slice(2)
+  const files = args.filter(a => a.includes('/'))
+  const named = args.filter(a => !a.includes('/'))
+  const projects = named.length ? named : ['api', 'e2e']
+  code = await run('npx', ['vitest', 'run', ...projects.flatMap(p => ['--project', p]), ...files], {
     ...env,
     BANDLIGHT_TEST_URL: `http://127.0.0.1:${port}`,
     TEST_DATA_DIR: dir,

@@ -5,7 +5,8 @@ import net from 'node:net'
 import path from 'node:path'
 
 export const ROOT = path.resolve(import.meta.dirname, '../..')
-export const SERVER_ENTRY = path.join(ROOT, '.output/server/index.mjs')
+/** The built server; BANDLIGHT_SERVER_ENTRY points elsewhere (e.g. a copy of .output). */
+export const SERVER_ENTRY = process.env.BANDLIGHT_SERVER_ENTRY ? path.resolve(process.env.BANDLIGHT_SERVER_ENTRY) : path.join(ROOT, '.output/server/index.mjs')
 
 const SOURCES = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package.json', 'pages', 'layouts', 'components', 'composables', 'middleware', 'stores', 'assets', 'public', 'server', 'shared']
 

@@ -95,7 +95,7 @@ describe('blackbody sources (quality manages them)', () => {
     await page.locator('#certificateFile').setInputFiles(tinyPdf('certificate.pdf'))
     await page.getByTestId('save-calibration').click()
     await expect.poll(() => page.getByTestId('notice').textContent()).toMatch(/Calibration recorded/)
-    expect(await page.getByTestId('due-date').textContent()).toContain('2027-11-20')
+    await expect.poll(() => page.getByTestId('due-date').textContent()).toContain('2027-11-20')
     expect(await page.getByTestId('no-calibration-notice').count()).toBe(0)
     const row = page.locator(`[data-calibration="HTS-${tag}"]`)
     expect(await row.textContent()).toContain('2026-11-20')
