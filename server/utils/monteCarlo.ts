@@ -8,7 +8,7 @@ import { Worker } from 'node:worker_threads'
 import workerCode from '#bandlight/mc-worker'
 import { expectedReadingK, readingSensitivities } from '../../shared/radiometry/reading'
 import { evaluateBudget, type BudgetComponent } from '../../shared/uncertainty/budget'
-import { splitTrials, summarizeMonteCarlo, validateGumResult, type MonteCarloInput } from '../../shared/uncertainty/montecarlo'
+import { compileInputs, runMonteCarloChunk, splitTrials, summarizeMonteCarlo, validateGumResult, type MonteCarloInput } from '../../shared/uncertainty/montecarlo'
 import type { McDistributionInput, MonteCarloRequest } from '../../shared/schemas/calculation'
 import type { McWorkerData } from '../workers/readingMonteCarlo'
 import { engine } from './engine'
@@ -167,6 +167,75 @@ export async function runReadingMonteCarlo(req: MonteCarloRequest, onProgress?: 
     coverageInterval: [summary.coverageInterval.low, summary.coverageInterval.high],
     shortestCoverageInterval: [summary.shortestCoverageInterval.low, summary.shortestCoverageInterval.high],
     gum,
+    validated: check.validated,
+    tolerance: check.tolerance,
+    dLow: check.dLow,
+    dHigh: check.dHigh,
+    durationMs: Math.round(performance.now() - started),
+  }
+}
+
+/** Explicit distributions for the reading model (a stored calibration point's budget, not an API body). */
+export interface ExplicitReadingMonteCarloRequest {
+  band: McWorkerData['band']
+  /** One distribution for each model input, in its unit (K or emissivity); names are ignored. */
+  inputs: Record<(typeof ORDER)[number], MonteCarloInput>
+  /** Independent terms added to the model output (K), e.g. repeatability and resolution of the reading. */
+  outputTerms: MonteCarloInput[]
+  trials: number
+  seed: number
+  coverageProbability: number
+  /** The GUM result to validate (JCGM 101 §8): estimate y, u(y) and U for the same coverage probability. */
+  gum: { y: number, u: number, U: number }
+}
+
+export interface ExplicitReadingMonteCarloResult {
+  trials: number
+  seed: number
+  coverageProbability: number
+  mean: number
+  standardUncertainty: number
+  coverageInterval: [number, number]
+  validated: boolean
+  tolerance: number
+  dLow: number | null
+  dHigh: number | null
+  durationMs: number
+}
+
+/**
+ * Monte Carlo with explicit input distributions: the five model inputs run through the reading model
+ * in the worker threads (same runner as {@link runReadingMonteCarlo}); the output terms are sampled
+ * here with an independent seed (they are cheap sums) and added trial by trial; then JCGM 101 §8
+ * validation against the given GUM result.
+ */
+export async function runReadingMonteCarloExplicit(req: ExplicitReadingMonteCarloRequest, onProgress?: (done: number, total: number) => void): Promise<ExplicitReadingMonteCarloResult> {
+  const started = performance.now()
+  const inputs = ORDER.map(k => ({ ...req.inputs[k], name: k }))
+  engine(() => compileInputs(inputs))
+  const values = await runTrials(req.band, inputs, req.trials, req.seed, onProgress)
+  if (req.outputTerms.length) {
+    const compiled = engine(() => compileInputs(req.outputTerms))
+    const n = req.outputTerms.length
+    const sum = (x: Float64Array) => {
+      let s = 0
+      for (let i = 0; i < n; i++) s += x[i]!
+      return s
+    }
+    const extra = runMonteCarloChunk(sum, compiled, (req.seed + 0x5bd1e995) % 0x100000000, 0, req.trials)
+    for (let i = 0; i < values.length; i++) values[i]! += extra[i]!
+  }
+  const summary = engine(() => summarizeMonteCarlo(values, req.coverageProbability))
+  const check = req.gum.u > 0
+    ? validateGumResult({ y: req.gum.y, U: req.gum.U, u: req.gum.u }, summary.coverageInterval)
+    : { validated: false, tolerance: 0, dLow: null, dHigh: null }
+  return {
+    trials: summary.trials,
+    seed: req.seed,
+    coverageProbability: summary.coverageProbability,
+    mean: summary.mean,
+    standardUncertainty: summary.standardUncertainty,
+    coverageInterval: [summary.coverageInterval.low, summary.coverageInterval.high],
     validated: check.validated,
     tolerance: check.tolerance,
     dLow: check.dLow,

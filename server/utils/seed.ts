@@ -11,6 +11,7 @@ import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
 import { sequelize } from './db'
 import { seedRegisters } from './seedRegisters'
+import { seedRuns } from './seedRuns'
 
 /** The demo password of every demo account (demo only — change it on a real installation). */
 export const DEMO_PASSWORD = 'bandlight-demo'
@@ -63,6 +64,7 @@ export async function seedDemo(): Promise<string> {
       created++
     }
     created += await seedRegisters(t)
+    created += await seedRuns(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'
 }

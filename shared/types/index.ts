@@ -53,3 +53,4 @@ export interface FieldErrors {
 }
 
 export type * from './registers'
+export type * from './runs'

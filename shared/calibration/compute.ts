@@ -1,0 +1,263 @@
+/**
+ * The computation of one calibration point of a radiation thermometer against a blackbody source:
+ * reference temperature, expected reading, error of indication, the full uncertainty budget, the CMC
+ * floor, rounding for the statement and the conformity decision. Pure and framework-free: the
+ * server loads the records, builds a {@link PointComputationInput} and stores what this returns,
+ * with the inputs, so a stored result can be recomputed exactly.
+ *
+ * Steps and the methods they implement (units: kelvin unless stated):
+ * 1. Reference temperature T_s: the source's indicated temperature plus the correction of its
+ *    certificate, interpolated linearly and never extrapolated (shared/registers/correction.ts), or
+ *    the reading of a reference thermometer.
+ * 2. Expected reading from the reading model ε_i·S(T_meas) + (1 − ε_i)·S(T_d) = ε_s·S(T_s) + (1 − ε_s)·S(T_w)
+ *    (ASTM E2758 / E2847 form, see shared/radiometry/reading.ts) and its sensitivity coefficients
+ *    ∂T_meas/∂x at the point (implicit differentiation of the same model).
+ * 3. Mean reading, experimental standard deviation s (GUM 4.2.2, n − 1 in the denominator), error of
+ *    indication E = mean − expected (VIM 2.16) and correction −E.
+ * 4. Budget (GUM 5.1.2): the procedure's template components, each converted to a standard
+ *    uncertainty in its input's unit (normal U/k; rectangular a/√3; triangular a/√6; U-shaped a/√2;
+ *    GUM 4.3.7, 4.3.9) with its sensitivity from step 2 (c = 1 on the reading); the repeatability of
+ *    the mean s/√n (Type A, ν = n − 1, GUM 4.2.3) when n ≥ 2; the display resolution δ/√12 (GUM F.2.2.1).
+ *    u_c, ν_eff (Welch–Satterthwaite, GUM G.4.1), k = t_{95.45 %}(ν_eff) and U = k·u_c by
+ *    shared/uncertainty/budget.ts.
+ * 5. The uncertainty stated is never below the laboratory's CMC at T_s: U_stated = max(U, CMC).
+ * 6. Rounding to two significant digits, the error to the same decimal place (GUM 7.2.6).
+ * 7. Conformity with the instrument's accuracy specification at the mean reading under the decision
+ *    rule (ILAC-G8:09/2019), with U_stated.
+ */
+import { ENGINE_VERSION } from '../engine'
+import { EngineInputError } from '../radiometry/errors'
+import { prepareBand, type Band } from '../radiometry/planck'
+import { readingSensitivities, type ReadingSensitivities } from '../radiometry/reading'
+import { correctionAt, CorrectionRangeError } from '../registers/correction'
+import { evaluateBudget, roundResult } from '../uncertainty/budget'
+import { evaluateConformity } from '../uncertainty/conformity'
+import type { BudgetLine, CmcEntry, PointComputationInput, PointResult, TemplateComponent } from '../types/runs'
+import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
+
+/** Name of the Type A line added from the readings. */
+export const REPEATABILITY_NAME = 'Repeatability of the readings (s/√n)'
+/** Name of the line added for the instrument's display resolution. */
+export const RESOLUTION_NAME = 'Display resolution of the instrument (δ/√12)'
+/** The remark added to a budget computed from one reading. */
+export const SINGLE_READING_NOTE = 'One reading only: the repeatability (Type A, s/√n) cannot be evaluated and is not in the budget.'
+
+/**
+ * Reference temperature of a point, K.
+ * @param reference - the source's indicated temperature (K) with its certificate table `[setPointK, correctionK]`,
+ *   or a reference thermometer's reading (K)
+ * @returns T_s (K) and the correction applied (K; null for a reference thermometer)
+ * @throws EngineInputError naming `sourceIndicatedK` (outside the table, or no table) or `referenceReadingK`
+ * @example referenceTemperature({ kind: 'source-correction', sourceIndicatedK: 348.15, corrections: [[323.15, 0.12], [373.15, 0.2]] })
+ *   → { referenceTemperatureK: 348.31, sourceCorrectionK: 0.16 }
+ */
+export function referenceTemperature(reference: PointComputationInput['reference']): { referenceTemperatureK: number, sourceCorrectionK: number | null } {
+  if (reference.kind === 'reference-thermometer') {
+    const t = reference.referenceReadingK
+    if (!(typeof t === 'number' && Number.isFinite(t) && t > 0)) throw new EngineInputError('referenceReadingK', 'must be a temperature above 0 K')
+    return { referenceTemperatureK: t, sourceCorrectionK: null }
+  }
+  const t = reference.sourceIndicatedK
+  if (!(typeof t === 'number' && Number.isFinite(t) && t > 0)) throw new EngineInputError('sourceIndicatedK', 'must be a temperature above 0 K')
+  if (!reference.corrections?.length) {
+    throw new EngineInputError('sourceIndicatedK', "the source's certificate has no correction table; give a reference thermometer reading instead")
+  }
+  try {
+    const c = correctionAt(reference.corrections, t)
+    return { referenceTemperatureK: t + c, sourceCorrectionK: c }
+  }
+  catch (err) {
+    if (err instanceof CorrectionRangeError) throw new EngineInputError('sourceIndicatedK', err.message)
+    throw err
+  }
+}
+
+/**
+ * Standard uncertainty of a template component in its input's unit (K, or an absolute emissivity).
+ * @param c - the component (value in `c.unit`)
+ * @param inputValue - the value of the emissivity input at the point (needed for `percent-of-emissivity`)
+ * @param index - position in the template, for error field names `template[i].…`
+ * @returns u(xᵢ), K or absolute emissivity
+ * @throws EngineInputError (`template[i].value`, `.coverageFactor`, `.unit`)
+ * @example templateStandardUncertainty({ distribution: 'rectangular', value: 1, unit: 'percent-of-emissivity', input: 'sourceEmissivity', … }, 0.95)
+ *   ≈ 0.0095/√3 = 0.005485
+ */
+export function templateStandardUncertainty(c: TemplateComponent, inputValue: number, index = 0): number {
+  const f = `template[${index}]`
+  if (!(typeof c.value === 'number' && Number.isFinite(c.value) && c.value >= 0)) throw new EngineInputError(`${f}.value`, 'must be a finite number ≥ 0')
+  const emissivityInput = EMISSIVITY_INPUTS.includes(c.input)
+  const allowed = emissivityInput ? UNITS_FOR_EMISSIVITY : UNITS_FOR_TEMPERATURE
+  if (!allowed.includes(c.unit)) throw new EngineInputError(`${f}.unit`, `an input '${c.input}' takes ${allowed.join(' or ')}, not ${c.unit}`)
+  let u: number
+  switch (c.distribution) {
+    case 'normal':
+      if (!(typeof c.coverageFactor === 'number' && c.coverageFactor > 0)) throw new EngineInputError(`${f}.coverageFactor`, 'a normal component needs the coverage factor k of its expanded uncertainty')
+      u = c.value / c.coverageFactor
+      break
+    case 'rectangular': u = c.value / Math.sqrt(3); break
+    case 'triangular': u = c.value / Math.sqrt(6); break
+    case 'u-shaped': u = c.value / Math.SQRT2; break
+    case 'standard': u = c.value; break
+    default: throw new EngineInputError(`${f}.distribution`, `unknown distribution '${String(c.distribution)}'`)
+  }
+  switch (c.unit) {
+    case 'mK': return u / 1000
+    case 'percent-of-emissivity': return (u / 100) * inputValue
+    default: return u
+  }
+}
+
+/**
+ * The CMC at a temperature: the largest expanded uncertainty (k = 2) of the ranges that contain it
+ * (bounds inclusive), or null when none does.
+ * @param cmc - ranges `{ minK, maxK, expandedUncertaintyK }`
+ * @param temperatureK - K
+ * @returns K or null
+ * @example cmcAt([{ minK: 250, maxK: 400, expandedUncertaintyK: 0.6 }], 373.15) === 0.6
+ */
+export function cmcAt(cmc: readonly CmcEntry[], temperatureK: number): number | null {
+  let best: number | null = null
+  for (const r of cmc) {
+    if (temperatureK >= r.minK && temperatureK <= r.maxK && (best === null || r.expandedUncertaintyK > best)) best = r.expandedUncertaintyK
+  }
+  return best
+}
+
+function sensitivityFor(input: ModelInput, s: ReadingSensitivities): number {
+  return input === 'reading' ? 1 : s[input]
+}
+
+/** The reading-model field names become the point's own: T_s comes from the reference input. */
+function pointField(field: string, reference: PointComputationInput['reference']): string {
+  if (field === 'sourceTemperatureK') return reference.kind === 'source-correction' ? 'sourceIndicatedK' : 'referenceReadingK'
+  if (field.startsWith('band')) return 'instrument.band'
+  return field
+}
+
+/**
+ * Computes one calibration point (see the module notes for each step and its source).
+ * @param input - band (µm), reference (K), ε_s, T_w (K), T_d (K), ε_i, readings (K, 1–50), resolution δ (K),
+ *   the budget template, the CMC ranges (K, k = 2), the accuracy specification, the decision rule and r
+ * @returns the point result with its inputs and the engine version
+ * @throws EngineInputError naming the field at fault (`readingsK[i]`, `sourceIndicatedK`, `referenceReadingK`,
+ *   `resolutionK`, `template[i].…`, `emissivitySetting`, `instrumentTemperatureK`, …)
+ * @example 8–14 µm, T_s = 373.15 K, ε_s = ε_i = 0.95, T_w = T_d = 296.15 K, readings [373.3, 373.5]:
+ *   expectedReadingK = 373.15, meanReadingK = 373.4, errorK = 0.25, correctionK = −0.25
+ */
+export function computePoint(input: PointComputationInput): PointResult {
+  const readings = input.readingsK
+  if (!Array.isArray(readings) || readings.length < 1) throw new EngineInputError('readingsK', 'give at least one reading')
+  if (readings.length > MAX_READINGS) throw new EngineInputError('readingsK', `at most ${MAX_READINGS} readings`)
+  readings.forEach((r, i) => {
+    if (!(typeof r === 'number' && Number.isFinite(r) && r > 0)) throw new EngineInputError(`readingsK[${i}]`, 'must be a temperature above 0 K')
+  })
+  if (!(typeof input.resolutionK === 'number' && Number.isFinite(input.resolutionK) && input.resolutionK > 0)) {
+    throw new EngineInputError('resolutionK', "the instrument's display resolution must be above 0 K")
+  }
+  const { referenceTemperatureK, sourceCorrectionK } = referenceTemperature(input.reference)
+
+  const band = input.band.kind === 'tabulated' ? prepareBand(input.band as Band) : (input.band as Band)
+  let sens: ReadingSensitivities
+  try {
+    sens = readingSensitivities({
+      band,
+      sourceTemperatureK: referenceTemperatureK,
+      sourceEmissivity: input.sourceEmissivity,
+      reflectedTemperatureK: input.reflectedTemperatureK,
+      instrumentTemperatureK: input.instrumentTemperatureK,
+      emissivitySetting: input.emissivitySetting,
+    })
+  }
+  catch (err) {
+    if (err instanceof EngineInputError) throw new EngineInputError(pointField(err.field, input.reference), err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message)
+    throw err
+  }
+  const expected = sens.expectedReadingK
+
+  const n = readings.length
+  const mean = readings.reduce((a, b) => a + b, 0) / n
+  const stdDev = n > 1 ? Math.sqrt(readings.reduce((a, r) => a + (r - mean) ** 2, 0) / (n - 1)) : 0
+  const error = mean - expected
+
+  const valueOf: Record<ModelInput, number> = {
+    sourceTemperature: referenceTemperatureK,
+    sourceEmissivity: input.sourceEmissivity,
+    reflectedTemperature: input.reflectedTemperatureK,
+    instrumentTemperature: input.instrumentTemperatureK,
+    emissivitySetting: input.emissivitySetting,
+    reading: mean,
+  }
+  const lines: Omit<BudgetLine, 'contributionK' | 'percent'>[] = input.template.map((c, i) => ({
+    name: c.name,
+    type: c.type,
+    input: c.input,
+    distribution: c.distribution,
+    value: c.value,
+    unit: c.unit,
+    standardUncertainty: templateStandardUncertainty(c, valueOf[c.input], i),
+    sensitivity: sensitivityFor(c.input, sens),
+    dof: c.dof ?? null,
+  }))
+  const notes: string[] = []
+  if (n >= 2) {
+    const u = stdDev / Math.sqrt(n)
+    lines.push({ name: REPEATABILITY_NAME, type: 'A', input: 'reading', distribution: 'standard', value: u, unit: 'K', standardUncertainty: u, sensitivity: 1, dof: n - 1 })
+  }
+  else {
+    notes.push(SINGLE_READING_NOTE)
+  }
+  lines.push({ name: RESOLUTION_NAME, type: 'B', input: 'reading', distribution: 'resolution', value: input.resolutionK, unit: 'K', standardUncertainty: input.resolutionK / Math.sqrt(12), sensitivity: 1, dof: null })
+
+  const budget = evaluateBudget(
+    lines.map(l => ({ name: l.name, standardUncertainty: l.standardUncertainty, sensitivity: l.sensitivity, dof: l.dof })),
+    { coverageProbability: COVERAGE_PROBABILITY },
+  )
+  const U = budget.expandedUncertainty
+  const cmcK = cmcAt(input.cmc, referenceTemperatureK)
+  const stated = cmcK !== null && cmcK > U ? cmcK : U
+  const rounded = roundResult(error, stated)
+  const rule = input.rule
+  const conformity = evaluateConformity({
+    spec: input.accuracy,
+    readingK: mean,
+    error,
+    expandedUncertainty: stated,
+    rule,
+    ...(rule !== 'simple-acceptance' ? { guardBandFactor: input.guardBandFactor ?? 1 } : {}),
+  })
+
+  return {
+    referenceTemperatureK,
+    sourceCorrectionK,
+    expectedReadingK: expected,
+    meanReadingK: mean,
+    stdDevK: stdDev,
+    n,
+    errorK: error,
+    correctionK: -error,
+    budget: {
+      components: lines.map((l, i) => ({ ...l, contributionK: budget.contributions[i]!.contribution, percent: budget.contributions[i]!.percent })),
+      combinedStandardUncertaintyK: budget.combinedStandardUncertainty,
+      effectiveDegreesOfFreedom: budget.effectiveDegreesOfFreedom,
+      coverageFactor: budget.coverageFactor,
+      coverageProbability: budget.coverageProbability,
+      expandedUncertaintyK: U,
+      cmcK,
+      statedUncertaintyK: stated,
+      cmcApplied: cmcK !== null && cmcK > U,
+      notes,
+    },
+    rounded: { error: rounded.value, uncertainty: rounded.uncertainty, errorText: rounded.valueText, uncertaintyText: rounded.uncertaintyText },
+    conformity: {
+      rule: conformity.rule,
+      ruleReference: conformity.ruleReference,
+      tolerance: conformity.tolerance,
+      guardBand: conformity.guardBand,
+      acceptanceLimit: conformity.acceptanceLimit,
+      verdict: conformity.verdict,
+      statement: conformity.statement,
+    },
+    engineVersion: ENGINE_VERSION,
+    inputs: input,
+  }
+}
