@@ -1,0 +1,99 @@
+// The technician's and the reviewer's flow through one calibration run, in a real browser.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { openBrowser, shot, signIn } from '../support/browser'
+import { BASE_URL, DEMO_ACCOUNTS, signedIn, type Client } from '../support/http'
+
+let browser: Awaited<ReturnType<typeof openBrowser>>
+let tech: Client
+let runId: number
+const SET_POINTS_C = [0, 25, 50, 100, 150]
+
+beforeAll(async () => {
+  browser = await openBrowser()
+  tech = await signedIn('technician')
+  const procedures = (await tech.get('/api/procedures')).body
+  const list = Array.isArray(procedures) ? procedures : procedures.rows
+  const plate = list.find((p: { name: string }) => /flat plate/i.test(p.name))
+  const instrument = (await tech.get('/api/instruments?q=NV814-BF02184')).body.rows[0]
+  const created = await tech.post('/api/runs', {
+    instrumentId: instrument.id,
+    procedureVersionId: plate.currentVersion.id,
+    receivedDate: '2026-11-20',
+    calibrationDate: '2026-11-24',
+    ambientTemperatureK: 296.15,
+    relativeHumidityPct: 40,
+    distanceMm: 300,
+    emissivitySetting: 0.95,
+    reflectedTemperatureK: 296.15,
+    instrumentTemperatureK: 296.65,
+    adjusted: false,
+  })
+  expect(created.status).toBe(201)
+  runId = created.body.id
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+describe('a calibration run, end to end', () => {
+  it('the technician enters five points with three readings each from the keyboard and submits', async () => {
+    const { page } = browser
+    await signIn(page, DEMO_ACCOUNTS.technician)
+    await page.goto(`${BASE_URL}/runs/${runId}`)
+    await page.waitForSelector('[data-testid="point-grid"]')
+    for (const [i, c] of SET_POINTS_C.entries()) {
+      const row = page.locator(`[data-row="${i}"]`)
+      await row.locator('[data-col="source"]').selectOption({ label: 'BB-FP-01' })
+      await row.locator('[data-col="setPoint"]').fill(String(c))
+      await row.locator('[data-col="indicated"]').fill(String(c))
+      const r = (x: number) => (c - 0.4 + x).toFixed(1)
+      await row.locator('[data-col="readings"]').fill(`${r(0)} ${r(0.1)} ${r(-0.1)}`)
+      await row.locator('[data-col="readings"]').press('Enter')
+      await expect.poll(() => page.locator('[data-testid="results-table"] tbody tr[data-point]').count()).toBe(i + 1)
+    }
+    await shot(page, 'run-entry')
+    await page.getByTestId('submit-run').click()
+    await expect.poll(() => page.getByTestId('run-status').textContent()).toMatch(/submitted/i)
+    await page.getByTestId('sign-out').click()
+    await page.waitForURL(/\/login/)
+  })
+
+  it('stores results that agree with the calculation API for the same inputs', async () => {
+    const run = (await tech.get(`/api/runs/${runId}`)).body
+    expect(run.points).toHaveLength(5)
+    for (const p of run.points) {
+      expect(p.result.n).toBe(3)
+      const er = await tech.post('/api/calculations/expected-reading', {
+        band: run.instrument.band,
+        sourceTemperatureK: p.result.referenceTemperatureK,
+        sourceEmissivity: p.result.inputs.sourceEmissivity,
+        reflectedTemperatureK: run.reflectedTemperatureK,
+        instrumentTemperatureK: run.instrumentTemperatureK,
+        emissivitySetting: run.emissivitySetting,
+      })
+      expect(Math.abs(er.body.expectedReadingK - p.result.expectedReadingK)).toBeLessThan(1e-9)
+      const budget = await tech.post('/api/calculations/budget', {
+        components: p.result.budget.components.map((c: { name: string, standardUncertainty: number, sensitivity: number, dof: number | null }) => ({ name: c.name, standardUncertainty: c.standardUncertainty, sensitivity: c.sensitivity, dof: c.dof })),
+      })
+      expect(Math.abs(budget.body.combinedStandardUncertainty - p.result.budget.combinedStandardUncertaintyK)).toBeLessThan(1e-12)
+      expect(Math.abs(budget.body.expandedUncertainty - p.result.budget.expandedUncertaintyK)).toBeLessThan(1e-9)
+      // E = mean − expected (VIM 2.16 error of indication)
+      expect(Math.abs(p.result.errorK - (p.result.meanReadingK - p.result.expectedReadingK))).toBeLessThan(1e-12)
+    }
+  })
+
+  it('the quality manager reviews the budget and the chart, and approves; the run is then locked', async () => {
+    const { page } = browser
+    await signIn(page, DEMO_ACCOUNTS.quality)
+    await page.goto(`${BASE_URL}/runs/${runId}`)
+    await page.locator('[data-point="2"]').click()
+    await page.waitForSelector('[data-testid="point-budget"]')
+    await page.waitForSelector('[data-testid="error-chart"] canvas')
+    await shot(page, 'run-review')
+    await page.getByTestId('approve-run').click()
+    await expect.poll(() => page.getByTestId('run-status').textContent()).toMatch(/approved/i)
+    expect(await page.getByTestId('approved-note').textContent()).toContain('locked')
+    expect(await page.locator('[data-row="0"] [data-col="readings"]').isDisabled()).toBe(true)
+    expect(await page.locator('[data-testid^="save-point-"]').count()).toBe(0)
+  })
+})
