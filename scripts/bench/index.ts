@@ -5,11 +5,14 @@
  */
 import { runEngineBench } from './engine'
 import { runRegistersBench } from './registers'
+import { runRunsBench } from './runs'
 import { runServerBench } from './server'
 
 const quick = process.argv.includes('--quick')
 runEngineBench({ quick })
 console.log('')
 await runRegistersBench({ quick })
+console.log('')
+await runRunsBench({ quick })
 console.log('')
 await runServerBench({ quick })
