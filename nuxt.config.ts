@@ -23,6 +23,9 @@ function monteCarloWorkerSource(): string {
 export default defineNuxtConfig({
   compatibilityDate: '2025-07-15',
   srcDir: '.',
+  // Parallel builds on one machine (several engineers, CI beside a checkout) can each use
+  // their own folders; by default Nuxt's own.
+  buildDir: process.env.BANDLIGHT_BUILD_DIR || undefined,
   devtools: { enabled: false },
   telemetry: false,
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@nuxt/eslint'],
@@ -52,6 +55,7 @@ export default defineNuxtConfig({
     },
   },
   nitro: {
+    output: process.env.BANDLIGHT_OUTPUT_DIR ? { dir: process.env.BANDLIGHT_OUTPUT_DIR } : undefined,
     experimental: { tasks: true },
     virtual: {
       '#bandlight/mc-worker': () => `export default ${JSON.stringify(monteCarloWorkerSource())}`,

@@ -19,12 +19,15 @@ export interface NavItem {
  */
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/', label: 'Overview', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
+  { to: '/runs', label: 'Calibration runs', roles: ['admin', 'technician', 'quality'], group: 'Work' },
+  { to: '/requests', label: 'Calibration requests', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
   { to: '/calculator', label: 'Calculator', roles: ['admin', 'technician', 'quality'], group: 'Work' },
   { to: '/instruments', label: 'Instruments', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Registers' },
   { to: '/customers', label: 'Customers', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/sources', label: 'Blackbody sources', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/reference-instruments', label: 'Reference instruments', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/responsivities', label: 'Responsivity tables', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
+  { to: '/procedures', label: 'Procedures', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
   { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
   { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },

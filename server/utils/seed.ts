@@ -11,6 +11,7 @@ import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
 import { sequelize } from './db'
 import { seedRegisters } from './seedRegisters'
+import { seedRequests } from './seedRequests'
 import { seedRuns } from './seedRuns'
 
 /** The demo password of every demo account (demo only — change it on a real installation). */
@@ -65,6 +66,7 @@ export async function seedDemo(): Promise<string> {
     }
     created += await seedRegisters(t)
     created += await seedRuns(t)
+    created += await seedRequests(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'
 }

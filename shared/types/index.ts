@@ -54,3 +54,4 @@ export interface FieldErrors {
 
 export type * from './registers'
 export type * from './runs'
+export type * from './requests'

@@ -41,6 +41,10 @@ describe('a calibration run, end to end', () => {
     await signIn(page, DEMO_ACCOUNTS.technician)
     await page.goto(`${BASE_URL}/runs/${runId}`)
     await page.waitForSelector('[data-testid="point-grid"]')
+    await page.getByTestId('edit-run-header').click()
+    await page.locator('#relativeHumidityPct').fill('38')
+    await page.getByTestId('save-run-header').click()
+    await expect.poll(() => page.getByTestId('run-header').textContent()).toContain('38 %RH')
     for (const [i, c] of SET_POINTS_C.entries()) {
       const row = page.locator(`[data-row="${i}"]`)
       await row.locator('[data-col="source"]').selectOption({ label: 'BB-FP-01' })

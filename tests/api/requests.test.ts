@@ -1,0 +1,85 @@
+// Calibration requests: customers ask, the laboratory accepts (draft runs) or declines.
+import { describe, expect, it } from 'vitest'
+import { signedIn } from '../support/http'
+
+async function ownInstruments() {
+  const customer = await signedIn('customer')
+  const list = (await customer.get('/api/instruments?pageSize=100')).body.rows as { id: number, organizationId: number }[]
+  return { customer, list }
+}
+
+describe('calibration requests', () => {
+  it('a customer requests its own instruments; the lab sees it in the queue and accepts it into draft runs', async () => {
+    const { customer, list } = await ownInstruments()
+    const created = await customer.post('/api/requests', { instrumentIds: [list[0]!.id, list[1]!.id], preferredDate: '2027-02-01', notes: 'Before the spring shutdown' })
+    expect(created.status).toBe(201)
+    expect(created.body).toMatchObject({ status: 'open', preferredDate: '2027-02-01' })
+    expect(created.body.instruments).toHaveLength(2)
+
+    const tech = await signedIn('technician')
+    const queue = (await tech.get('/api/requests?status=open&pageSize=100')).body.rows as { id: number }[]
+    expect(queue.map(r => r.id)).toContain(created.body.id)
+
+    const procedures = (await tech.get('/api/procedures')).body
+    const proc = (Array.isArray(procedures) ? procedures : procedures.rows)[0]
+    const accepted = await tech.post(`/api/requests/${created.body.id}/accept`, { version: created.body.version, procedureVersionId: proc.currentVersion.id, receivedDate: '2026-12-01', response: 'Booked for the week of 4 January.' })
+    expect(accepted.status).toBe(200)
+    expect(accepted.body.status).toBe('accepted')
+    expect(accepted.body.runIds).toHaveLength(2)
+    const run = (await tech.get(`/api/runs/${accepted.body.runIds[0]}`)).body
+    expect(run).toMatchObject({ status: 'draft', instrumentId: list[0]!.id, receivedDate: '2026-12-01' })
+    expect(run.technicianName).toBe('Tomas Reyne')
+
+    // The customer reads the lab's answer, and the request cannot be accepted twice.
+    const mine = (await customer.get(`/api/requests/${created.body.id}`)).body
+    expect(mine).toMatchObject({ status: 'accepted', response: 'Booked for the week of 4 January.' })
+    const again = await tech.post(`/api/requests/${created.body.id}/accept`, { version: accepted.body.version, procedureVersionId: proc.currentVersion.id, receivedDate: '2026-12-01' })
+    expect(again.status).toBe(409)
+  })
+
+  it('refuses another organization\'s instrument, naming instrumentIds, and creates nothing', async () => {
+    const { customer } = await ownInstruments()
+    const tech = await signedIn('technician')
+    const all = (await tech.get('/api/instruments?pageSize=200')).body.rows as { id: number, organizationName: string }[]
+    const foreign = all.find(i => i.organizationName !== 'Kestrelmoor Foundry Ltd')!
+    const before = (await customer.get('/api/requests?pageSize=100')).body.total
+    const r = await customer.post('/api/requests', { instrumentIds: [foreign.id] })
+    expect(r.status).toBe(400)
+    expect(r.body.data.fields).toHaveProperty('instrumentIds')
+    expect((await customer.get('/api/requests?pageSize=100')).body.total).toBe(before)
+  })
+
+  it('validates the request and the decline', async () => {
+    const { customer, list } = await ownInstruments()
+    const bad = await customer.post('/api/requests', { instrumentIds: [], preferredDate: '2027-02-30' })
+    expect(bad.status).toBe(400)
+    expect(Object.keys(bad.body.data.fields).sort()).toEqual(['instrumentIds', 'preferredDate'])
+    const dup = await customer.post('/api/requests', { instrumentIds: [list[0]!.id, list[0]!.id] })
+    expect(dup.status).toBe(400)
+    const ok = (await customer.post('/api/requests', { instrumentIds: [list[2]!.id] })).body
+    const tech = await signedIn('technician')
+    const noReason = await tech.post(`/api/requests/${ok.id}/decline`, { version: ok.version, response: '' })
+    expect(noReason.status).toBe(400)
+    expect(noReason.body.data.fields).toHaveProperty('response')
+    const declined = await tech.post(`/api/requests/${ok.id}/decline`, { version: ok.version, response: 'That model is outside our scope of accreditation.' })
+    expect(declined.body.status).toBe('declined')
+  })
+
+  it('keeps organizations apart: lab roles cannot create requests, other customers\' requests are 404', async () => {
+    const tech = await signedIn('technician')
+    expect((await tech.post('/api/requests', { instrumentIds: [1] })).status).toBe(403)
+    // An admin creates a second customer user in another organization; it cannot read Kestrelmoor's requests.
+    const admin = await signedIn('admin')
+    const orgs = (await admin.get('/api/admin/organizations')).body as { id: number, name: string }[]
+    const other = orgs.find(o => o.name === 'Pellucid Float Glass')!
+    const email = `glass${Date.now()}@pellucid-glass.example`
+    expect((await admin.post('/api/admin/users', { email, name: 'Glass Buyer', role: 'customer', organizationId: other.id, password: 'a-good-long-password' })).status).toBe(201)
+    const { Client } = await import('../support/http')
+    const stranger = new Client()
+    await stranger.login(email, 'a-good-long-password')
+    const { customer, list } = await ownInstruments()
+    const mine = (await customer.post('/api/requests', { instrumentIds: [list[3]!.id] })).body
+    expect((await stranger.get(`/api/requests/${mine.id}`)).status).toBe(404)
+    expect(((await stranger.get('/api/requests')).body.rows as { id: number }[]).map(r => r.id)).not.toContain(mine.id)
+  })
+})
