@@ -10,6 +10,7 @@ import { Organization } from '../models/Organization'
 import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
 import { sequelize } from './db'
+import { seedCertificates } from './seedCertificates'
 import { seedRegisters } from './seedRegisters'
 import { seedRequests } from './seedRequests'
 import { seedRuns } from './seedRuns'
@@ -66,6 +67,7 @@ export async function seedDemo(): Promise<string> {
     }
     created += await seedRegisters(t)
     created += await seedRuns(t)
+    created += await seedCertificates(t)
     created += await seedRequests(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'

@@ -54,4 +54,5 @@ export interface FieldErrors {
 
 export type * from './registers'
 export type * from './runs'
+export type * from './certificates'
 export type * from './requests'

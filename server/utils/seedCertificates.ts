@@ -1,0 +1,50 @@
+/**
+ * The invented demo laboratory's settings (Harrowfield Radiometric Calibration Laboratory, an
+ * invented address and accreditation) and one issued certificate: the approved demo run of the
+ * customer's KF-IR-013, signed by the demo quality manager. Idempotent: the settings row is created
+ * once; a run that already has a certificate is left alone.
+ */
+import type { Transaction } from 'sequelize'
+import { CalibrationRun } from '../models/CalibrationRun'
+import { Certificate } from '../models/Certificate'
+import { Instrument } from '../models/Instrument'
+import { LabSettings } from '../models/LabSettings'
+import { User } from '../models/User'
+import { recordAudit, snapshot } from './audit'
+import { issueCertificateIn } from './certificates'
+
+export const DEMO_LAB = {
+  name: 'Harrowfield Radiometric Calibration Laboratory',
+  addressLines: 'Unit 4, Tenterbrook Science Park\nMill Lane',
+  city: 'Harrowfield',
+  postcode: 'HF3 7QD',
+  country: 'United Kingdom',
+  email: 'certificates@harrowfield-radiometric.example',
+  phone: '+44 1632 960 733',
+  accreditationBody: 'Northmere Accreditation Board (invented)',
+  accreditationNumber: 'NAB-CL-0917',
+  numberPrefix: 'BL',
+  numberIncludesYear: true,
+  numberDigits: 5,
+  signatoryFunctions: ['Quality manager', 'Deputy quality manager', 'Technical manager'],
+  traceabilityStatement: 'The measurements are traceable to the International System of Units (SI) through the International Temperature Scale of 1990, by way of the laboratory’s reference standards listed below, each calibrated by an accredited laboratory or a national metrology institute.',
+  decisionRuleStatement: 'The statement of conformity applies to the points measured, against the specification the customer named when ordering the calibration.',
+  itemsStatement: 'The results relate only to the items calibrated.',
+  reproductionStatement: 'This certificate shall not be reproduced except in full without the written approval of the laboratory.',
+}
+
+export async function seedCertificates(t: Transaction): Promise<number> {
+  let created = 0
+  if (!(await LabSettings.count({ transaction: t }))) {
+    const row = await LabSettings.create({ ...DEMO_LAB }, { transaction: t })
+    await recordAudit(t, { userId: null, action: 'seed', entity: 'LabSettings', entityId: row.id, after: snapshot(row) })
+    created++
+  }
+  const quality = await User.findOne({ where: { email: 'quality@bandlight.test' }, transaction: t })
+  const instrument = await Instrument.findOne({ where: { assetTag: 'KF-IR-013' }, transaction: t })
+  if (!quality || !instrument) return created
+  const run = await CalibrationRun.findOne({ where: { instrumentId: instrument.id, status: 'approved' }, order: [['calibrationDate', 'ASC']], transaction: t })
+  if (!run || await Certificate.count({ where: { runId: run.id }, transaction: t })) return created
+  await issueCertificateIn(t, { user: quality, signatoryFunction: 'Quality manager' }, run.id, 'seed')
+  return created + 1
+}

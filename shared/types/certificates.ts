@@ -1,0 +1,80 @@
+/**
+ * DTOs of the laboratory settings, certificates and the public verification
+ * (server/api/settings/lab, server/api/certificates, server/api/verify).
+ */
+import type { CertificateStatus } from '../certificates/constants'
+
+export interface LabSettingsDTO {
+  name: string
+  /** Street lines separated by newlines. */
+  addressLines: string
+  city: string
+  postcode: string | null
+  country: string
+  email: string | null
+  phone: string | null
+  accreditationBody: string
+  accreditationNumber: string
+  numberPrefix: string
+  numberIncludesYear: boolean
+  numberDigits: number
+  /** An example of the next number in this format (sequence 42 of the current year). */
+  numberExample: string
+  signatoryFunctions: string[]
+  traceabilityStatement: string
+  decisionRuleStatement: string
+  itemsStatement: string
+  reproductionStatement: string | null
+  version: number
+  updatedAt: string
+}
+
+export interface CertificateDTO {
+  id: number
+  /** The number printed on the certificate, with its revision suffix (`BL-2026-00042-R1`). */
+  number: string
+  baseNumber: string
+  revision: number
+  status: CertificateStatus
+  runId: number
+  instrumentId: number
+  instrumentSerial: string | null
+  instrumentLabel: string | null
+  organizationId: number
+  organizationName: string | null
+  calibrationDate: string
+  /** Date of issue, YYYY-MM-DD. */
+  issueDate: string
+  issuedAt: string
+  signedById: number
+  signatoryName: string
+  signatoryFunction: string
+  signatureMeaning: string
+  pdfSha256: string
+  pdfSize: number
+  /** The revision this one replaced, and why. */
+  amendsId: number | null
+  amendmentReason: string | null
+  supersededById: number | null
+  supersededAt: string | null
+  withdrawnAt: string | null
+  withdrawnByName: string | null
+  withdrawalReason: string | null
+  version: number
+}
+
+export interface CertificateDetailDTO extends CertificateDTO {
+  /** Every revision of the same number, oldest first (this one included). */
+  revisions: CertificateDTO[]
+  /** The verification code and address printed on the certificate (its QR code points there). */
+  verificationCode: string
+  verificationUrl: string
+}
+
+/** The only answer of the public verification. */
+export interface CertificateVerificationDTO {
+  number: string
+  issueDate: string
+  instrumentSerial: string
+  status: CertificateStatus
+}

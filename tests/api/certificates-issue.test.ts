@@ -1,0 +1,310 @@
+// Certificates: laboratory settings, signing with the password, gap-free numbering under concurrent
+// issues, the stored PDF and its hash, the lock on certified runs, amendment, withdrawal, public
+// verification and customer isolation. One file, run in order, so the numbering checks see every
+// certificate issued meanwhile.
+import { execFileSync } from 'node:child_process'
+import crypto from 'node:crypto'
+import fs from 'node:fs'
+import os from 'node:os'
+import path from 'node:path'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { addMonths } from '../../shared/certificates/numbers'
+import { BASE_URL, Client, DEMO_PASSWORD, signedIn, unique } from '../support/http'
+
+let tech: Client
+let quality: Client
+let admin: Client
+let customer: Client
+let ownInstrument: number
+let otherInstrument: number
+let plate: number
+let versionId: number
+
+const hasPdftotext = (() => {
+  try {
+    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
+    return true
+  }
+  catch {
+    return false
+  }
+})()
+
+async function approvedRun(instrumentId = ownInstrument): Promise<number> {
+  const r = await tech.post('/api/runs', {
+    instrumentId, procedureVersionId: versionId, receivedDate: '2026-11-20', calibrationDate: '2026-11-25',
+    ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
+  })
+  expect(r.status, JSON.stringify(r.body)).toBe(201)
+  for (const setPointK of [273.15, 323.15, 373.15]) {
+    const pt = await tech.post(`/api/runs/${r.body.id}/points`, { sourceId: plate, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK - 0.2, setPointK - 0.1, setPointK - 0.3] })
+    expect(pt.status, JSON.stringify(pt.body)).toBe(201)
+  }
+  const s = await tech.post(`/api/runs/${r.body.id}/submit`, { version: r.body.version })
+  expect(s.status, JSON.stringify(s.body)).toBe(200)
+  const a = await quality.post(`/api/runs/${r.body.id}/approve`, { version: s.body.version })
+  expect(a.status, JSON.stringify(a.body)).toBe(200)
+  return r.body.id
+}
+
+const issue = (runId: number, over: Record<string, unknown> = {}) =>
+  quality.post('/api/certificates', { runId, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager', ...over })
+
+async function download(c: Client, id: number): Promise<{ status: number, type: string | null, disposition: string | null, bytes: Buffer }> {
+  const cookie = (c as unknown as { cookies: Map<string, string> }).cookies
+  const res = await fetch(`${BASE_URL}/api/certificates/${id}/pdf`, { headers: { cookie: [...cookie].map(([k, v]) => `${k}=${v}`).join('; ') } })
+  return { status: res.status, type: res.headers.get('content-type'), disposition: res.headers.get('content-disposition'), bytes: Buffer.from(await res.arrayBuffer()) }
+}
+
+const sha256 = (b: Buffer) => crypto.createHash('sha256').update(b).digest('hex')
+const sequenceOf = (number: string) => Number(/-(\d+)$/.exec(number.replace(/-R\d+$/, ''))![1])
+
+function pdfText(bytes: Buffer): string {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-cert-'))
+  const file = path.join(dir, 'c.pdf')
+  fs.writeFileSync(file, bytes)
+  // Words joined by single spaces, so a phrase is found whatever line it was broken over.
+  return execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
+}
+
+beforeAll(async () => {
+  ;[tech, quality, admin, customer] = await Promise.all([signedIn('technician'), signedIn('quality'), signedIn('admin'), signedIn('customer')])
+  const me = (await customer.get('/api/auth/me')).body as { organizationId: number }
+  const instruments = (await tech.get('/api/instruments?pageSize=500')).body.rows as { id: number, assetTag: string, model: string, organizationId: number, status: string }[]
+  const own = instruments.find(i => i.assetTag === 'KF-IR-015')!
+  ownInstrument = own.id
+  otherInstrument = instruments.find(i => i.model === own.model && i.organizationId !== me.organizationId && i.status === 'active' && !['BF-IR-001', 'BF-IR-002'].includes(i.assetTag))!.id
+  plate = ((await tech.get('/api/sources?pageSize=100')).body.rows as { id: number, assetTag: string }[]).find(s => s.assetTag === 'BB-FP-01')!.id
+  const p = await quality.post('/api/procedures', {
+    name: unique('Certificate procedure '), documentReference: 'CP-CERT-1', decisionRule: 'simple-acceptance',
+    template: [{ name: 'Reference', type: 'B', distribution: 'normal', value: 0.05, coverageFactor: 2, unit: 'K', input: 'sourceTemperature' }],
+    cmc: [{ minK: 250, maxK: 450, expandedUncertaintyK: 0.4 }],
+  })
+  expect(p.status, JSON.stringify(p.body)).toBe(201)
+  versionId = p.body.currentVersion.id
+})
+
+describe('laboratory settings', () => {
+  it('lab roles read them; only an admin changes them, with the version; bad input names the field', async () => {
+    const got = await tech.get('/api/settings/lab')
+    expect(got.status).toBe(200)
+    expect(got.body.name).toBe('Harrowfield Radiometric Calibration Laboratory')
+    expect(got.body.signatoryFunctions).toContain('Quality manager')
+    expect(got.body.numberExample).toMatch(/^BL-\d{4}-00042$/)
+    expect((await customer.get('/api/settings/lab')).status).toBe(403)
+    expect((await quality.patch('/api/settings/lab', { version: got.body.version, name: 'x' })).status).toBe(403)
+    const bad = await admin.patch('/api/settings/lab', { version: got.body.version, numberDigits: 12, signatoryFunctions: [] })
+    expect(bad.status).toBe(400)
+    expect(bad.body.data.fields.numberDigits).toBeTruthy()
+    expect(bad.body.data.fields.signatoryFunctions).toBeTruthy()
+    const ok = await admin.patch('/api/settings/lab', { version: got.body.version, signatoryFunctions: [...got.body.signatoryFunctions, 'Calibration signatory'] })
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200)
+    expect(ok.body.signatoryFunctions).toContain('Calibration signatory')
+    expect(ok.body.version).toBe(got.body.version + 1)
+    expect((await admin.patch('/api/settings/lab', { version: got.body.version, name: 'Stale' })).status).toBe(409)
+    const audit = await admin.get('/api/admin/audit?entity=LabSettings&pageSize=5')
+    if (audit.status === 200) expect(JSON.stringify(audit.body)).toContain('Calibration signatory')
+  })
+})
+
+describe('issuing', () => {
+  it('a wrong password is 400 naming password: nothing issued, no number consumed', async () => {
+    const a = await approvedRun()
+    const first = await issue(a)
+    expect(first.status, JSON.stringify(first.body)).toBe(201)
+    const b = await approvedRun()
+    const wrong = await issue(b, { password: 'not-the-password' })
+    expect(wrong.status).toBe(400)
+    expect(wrong.body.data.fields.password).toBeTruthy()
+    expect((await quality.get(`/api/certificates?runId=${b}`)).body.total).toBe(0)
+    const second = await issue(b)
+    expect(second.status, JSON.stringify(second.body)).toBe(201)
+    expect(sequenceOf(second.body.number)).toBe(sequenceOf(first.body.number) + 1)
+  })
+
+  it('only approved runs, once each, as one of the laboratory’s functions; signature recorded', async () => {
+    const draft = (await tech.post('/api/runs', {
+      instrumentId: ownInstrument, procedureVersionId: versionId, receivedDate: '2026-11-20', calibrationDate: '2026-11-25',
+      ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
+    })).body
+    const notApproved = await issue(draft.id)
+    expect(notApproved.status).toBe(400)
+    expect(notApproved.body.data.fields.runId).toMatch(/approved/)
+    const run = await approvedRun()
+    const badFn = await issue(run, { signatoryFunction: 'Chief wizard' })
+    expect(badFn.status).toBe(400)
+    expect(badFn.body.data.fields.signatoryFunction).toBeTruthy()
+    expect((await issue(run, { runId: 'x' })).body.data.fields.runId).toBeTruthy()
+    const ok = await issue(run)
+    expect(ok.status).toBe(201)
+    expect(ok.body).toMatchObject({ status: 'valid', revision: 0, signatoryName: 'Quinn Halvorsen', signatoryFunction: 'Quality manager', signatureMeaning: 'authorized for issue', runId: run })
+    expect(ok.body.number).toMatch(/^BL-\d{4}-\d{5}$/)
+    expect(ok.body.verificationCode).toMatch(/^[0-9A-HJKMNP-TV-Z]{10}$/)
+    expect(ok.body.verificationUrl).toContain(`/verify?number=${encodeURIComponent(ok.body.number)}&code=${ok.body.verificationCode}`)
+    const again = await issue(run)
+    expect(again.status).toBe(409)
+    // The instrument is due again one calibration interval after the calibration date.
+    const inst = (await tech.get(`/api/instruments/${ownInstrument}`)).body
+    expect(inst.nextDueDate).toBe(addMonths('2026-11-25', inst.calibrationIntervalMonths))
+  })
+
+  it('eight issues at once get eight distinct, consecutive numbers', async () => {
+    const runs: number[] = []
+    for (let i = 0; i < 8; i++) runs.push(await approvedRun(i % 2 ? otherInstrument : ownInstrument))
+    const before = (await quality.get('/api/certificates?pageSize=1')).body.rows[0]
+    const replies = await Promise.all(runs.map(r => issue(r)))
+    for (const r of replies) expect(r.status, JSON.stringify(r.body)).toBe(201)
+    const numbers = replies.map(r => r.body.number as string)
+    expect(new Set(numbers).size).toBe(8)
+    const seqs = numbers.map(sequenceOf).sort((x, y) => x - y)
+    for (let i = 1; i < seqs.length; i++) expect(seqs[i]! - seqs[i - 1]!).toBe(1)
+    expect(seqs[0]).toBe(sequenceOf(before.baseNumber) + 1)
+  })
+})
+
+describe('the stored PDF, immutability, amendment, withdrawal, verification', () => {
+  let runId: number
+  let cert: { id: number, number: string, pdfSha256: string, verificationCode: string, issueDate: string, instrumentSerial: string }
+
+  beforeAll(async () => {
+    runId = await approvedRun()
+    const r = await issue(runId)
+    expect(r.status, JSON.stringify(r.body)).toBe(201)
+    cert = r.body
+  })
+
+  it('downloads as an attachment whose SHA-256 is the one recorded, with the certificate’s content', async () => {
+    const file = await download(quality, cert.id)
+    expect(file.status).toBe(200)
+    expect(file.type).toBe('application/pdf')
+    expect(file.disposition).toMatch(/^attachment; filename="BL-/)
+    expect(file.bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-')
+    expect(sha256(file.bytes)).toBe(cert.pdfSha256)
+    // Kept for a look (git-ignored): pdftoppm -png -r 60 tests/.artifacts/certificates/<number>.pdf
+    const artifacts = path.resolve(import.meta.dirname, '../.artifacts/certificates')
+    fs.mkdirSync(artifacts, { recursive: true })
+    fs.writeFileSync(path.join(artifacts, `${cert.number}.pdf`), file.bytes)
+    if (!hasPdftotext) {
+      console.warn('pdftotext (poppler-utils) is not installed: the PDF text check is skipped')
+      return
+    }
+    const text = pdfText(file.bytes)
+    for (const s of ['Calibration Certificate', cert.number, 'Harrowfield Radiometric Calibration Laboratory', 'Kestrelmoor Foundry Ltd', cert.instrumentSerial,
+      'KF-IR-015', 'CP-CERT-1', 'Page 1 of', 'End of certificate', 'authorized for issue', 'Quinn Halvorsen', 'Quality manager', 'BB-FP-01', 'HTS-26-0311',
+      'coverage factor k', 'The results relate only to the items calibrated.', 'Decision rule: Simple acceptance', cert.verificationCode.slice(0, 5)]) {
+      expect(text, s).toContain(s)
+    }
+    expect(text).toMatch(/coverage factor k (=|from) \d\.\d\d/)
+    expect(text).toMatch(/coverage probability of approximately 95 %/)
+    const pages = Number(/Page 1 of (\d+)/.exec(text)![1])
+    for (let p = 1; p <= pages; p++) expect(text).toContain(`Page ${p} of ${pages}`)
+    expect(text.split(`Certificate ${cert.number}`).length - 1).toBe(pages)
+  })
+
+  it('public verification tells number, issue date, serial and status, and nothing else; wrong codes are one generic 404', async () => {
+    const anon = new Client()
+    const ok = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode}`)
+    expect(ok.status).toBe(200)
+    expect(ok.body).toEqual({ number: cert.number, issueDate: cert.issueDate, instrumentSerial: cert.instrumentSerial, status: 'valid' })
+    const lower = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode.toLowerCase()}`)
+    expect(lower.status).toBe(200)
+    const wrong = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=0000000000`)
+    const unknown = await anon.get(`/api/verify?number=NO-SUCH-1&code=${cert.verificationCode}`)
+    expect(wrong.status).toBe(404)
+    expect(unknown.status).toBe(404)
+    expect(wrong.body.message).toBe(unknown.body.message)
+    expect((await anon.get('/api/verify?number=x')).body.data.fields.code).toBeTruthy()
+    const file = await download(quality, cert.id)
+    const byFile = await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Uint8Array(file.bytes) })
+    expect(byFile.status).toBe(200)
+    expect(await byFile.json()).toEqual({ number: cert.number, issueDate: cert.issueDate, instrumentSerial: cert.instrumentSerial, status: 'valid' })
+    const tampered = Buffer.concat([file.bytes, Buffer.from('\n% changed\n')])
+    expect((await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Uint8Array(tampered) })).status).toBe(404)
+    const form = new FormData()
+    form.append('file', new Blob([new Uint8Array(file.bytes)], { type: 'application/pdf' }), 'certificate.pdf')
+    const multipart = await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', body: form })
+    expect(multipart.status).toBe(200)
+  })
+
+  it('every write route of the runs refuses a certified run, and neither run nor certificate changes', async () => {
+    const run = (await tech.get(`/api/runs/${runId}`)).body
+    const certBefore = (await quality.get(`/api/certificates/${cert.id}`)).body
+    const pt = run.points[0]
+    const attempts: [string, string, unknown][] = [
+      ['PATCH', `/api/runs/${runId}`, { version: run.version, notes: 'changed', reason: 'try' }],
+      ['POST', `/api/runs/${runId}/points`, { sourceId: plate, setPointK: 323.15, sourceIndicatedK: 323.15, readingsK: [323.1], reason: 'try' }],
+      ['PATCH', `/api/runs/${runId}/points/${pt.id}`, { version: pt.version, readingsK: [300], reason: 'try' }],
+      ['POST', `/api/runs/${runId}/points/import`, { csv: 'stage,sourceAssetTag,setPointK,sourceIndicatedK,reading1\nas-found,BB-FP-01,323.15,323.15,323.1\n', commit: true, reason: 'try' }],
+      ['POST', `/api/runs/${runId}/submit`, { version: run.version }],
+      ['POST', `/api/runs/${runId}/approve`, { version: run.version }],
+      ['POST', `/api/runs/${runId}/return`, { version: run.version, comments: 'try' }],
+      ['POST', `/api/runs/${runId}/points/${pt.id}/monte-carlo`, { trials: 10000 }],
+    ]
+    for (const [m, p, body] of attempts) {
+      const by = p.endsWith('/approve') || p.endsWith('/return') ? quality : tech
+      const res = await by.request(m, p, body)
+      expect(res.status, `${m} ${p}: ${JSON.stringify(res.body)}`).toBe(409)
+    }
+    const after = (await tech.get(`/api/runs/${runId}`)).body
+    expect(after.version).toBe(run.version)
+    expect(after.updatedAt).toBe(run.updatedAt)
+    expect(after.points).toEqual(run.points)
+    expect((await quality.get(`/api/certificates/${cert.id}`)).body).toEqual(certBefore)
+  })
+
+  it('amendment issues -R1 with the reason and supersedes the original, whose PDF stays as issued', async () => {
+    const wrong = await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'x', password: 'nope', signatoryFunction: 'Quality manager' })
+    expect(wrong.status).toBe(400)
+    expect(wrong.body.data.fields.password).toBeTruthy()
+    expect((await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).body.data.fields.reason).toBeTruthy()
+    const amended = await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'Customer asked for the asset tag to be shown', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
+    expect(amended.status, JSON.stringify(amended.body)).toBe(201)
+    expect(amended.body.number).toBe(`${cert.number}-R1`)
+    expect(amended.body).toMatchObject({ revision: 1, status: 'valid', amendsId: cert.id, amendmentReason: 'Customer asked for the asset tag to be shown' })
+    expect(amended.body.revisions.map((r: { number: string, status: string }) => [r.number, r.status])).toEqual([[cert.number, 'superseded'], [`${cert.number}-R1`, 'valid']])
+    const old = (await quality.get(`/api/certificates/${cert.id}`)).body
+    expect(old.status).toBe('superseded')
+    expect(old.supersededById).toBe(amended.body.id)
+    expect(old.pdfSha256).toBe(cert.pdfSha256)
+    const oldFile = await download(quality, cert.id)
+    expect(sha256(oldFile.bytes)).toBe(cert.pdfSha256)
+    const newFile = await download(quality, amended.body.id)
+    expect(sha256(newFile.bytes)).toBe(amended.body.pdfSha256)
+    if (hasPdftotext) expect(pdfText(newFile.bytes)).toContain(`replaces certificate ${cert.number}`)
+    const anon = new Client()
+    expect((await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode}`)).body.status).toBe('superseded')
+    expect((await anon.get(`/api/verify?number=${encodeURIComponent(amended.body.number)}&code=${amended.body.verificationCode}`)).body.status).toBe('valid')
+    expect((await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'again', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(409)
+    expect((await quality.get('/api/certificates?status=superseded&pageSize=500')).body.rows.some((r: { id: number }) => r.id === cert.id)).toBe(true)
+
+    const withdrawn = await quality.post(`/api/certificates/${amended.body.id}/withdraw`, { reason: 'Issued for the wrong instrument', password: DEMO_PASSWORD })
+    expect(withdrawn.status, JSON.stringify(withdrawn.body)).toBe(200)
+    expect(withdrawn.body).toMatchObject({ status: 'withdrawn', withdrawalReason: 'Issued for the wrong instrument', withdrawnByName: 'Quinn Halvorsen' })
+    expect((await anon.get(`/api/verify?number=${encodeURIComponent(amended.body.number)}&code=${amended.body.verificationCode}`)).body.status).toBe('withdrawn')
+    expect((await quality.post(`/api/certificates/${amended.body.id}/withdraw`, { reason: 'again', password: DEMO_PASSWORD })).status).toBe(409)
+    expect((await quality.post(`/api/certificates/${amended.body.id}/amend`, { reason: 'again', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(409)
+    expect(sha256((await download(quality, amended.body.id)).bytes)).toBe(amended.body.pdfSha256)
+  })
+
+  it('customers see only their organization’s certificates, every status marked; another’s is 404', async () => {
+    const otherRun = await approvedRun(otherInstrument)
+    const other = (await issue(otherRun)).body
+    const list = await customer.get('/api/certificates?pageSize=500')
+    expect(list.status).toBe(200)
+    const me = (await customer.get('/api/auth/me')).body
+    expect(list.body.rows.length).toBeGreaterThan(0)
+    for (const r of list.body.rows) expect(r.organizationId).toBe(me.organizationId)
+    const statuses = new Set(list.body.rows.map((r: { status: string }) => r.status))
+    expect(statuses.has('superseded') && statuses.has('withdrawn')).toBe(true)
+    expect((await customer.get(`/api/certificates/${other.id}`)).status).toBe(404)
+    expect((await download(customer, other.id)).status).toBe(404)
+    expect((await customer.get(`/api/certificates/${cert.id}`)).status).toBe(200)
+    const own = await download(customer, cert.id)
+    expect(own.status).toBe(200)
+    expect(sha256(own.bytes)).toBe(cert.pdfSha256)
+    for (const [m, p] of [['POST', '/api/certificates'], ['POST', `/api/certificates/${cert.id}/amend`], ['POST', `/api/certificates/${cert.id}/withdraw`]] as const) {
+      expect((await customer.request(m, p, {})).status).toBe(403)
+    }
+    expect((await tech.post('/api/certificates', { runId: otherRun, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(403)
+  })
+})
