@@ -2,7 +2,7 @@ import { rolesForPath } from '~~/shared/navigation'
 
 // Convenience only: sends anonymous visitors to /login and keeps roles off pages they
 // cannot use. The server checks the session and role in every API route regardless.
-const PUBLIC_PAGES = ['/login']
+const PUBLIC_PAGES = ['/login', '/verify']
 
 export default defineNuxtRouteMiddleware((to) => {
   const { loggedIn, user } = useUserSession()

@@ -20,6 +20,7 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/', label: 'Overview', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
   { to: '/runs', label: 'Calibration runs', roles: ['admin', 'technician', 'quality'], group: 'Work' },
+  { to: '/certificates', label: 'Certificates', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
   { to: '/requests', label: 'Calibration requests', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
   { to: '/calculator', label: 'Calculator', roles: ['admin', 'technician', 'quality'], group: 'Work' },
   { to: '/instruments', label: 'Instruments', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Registers' },

@@ -14,7 +14,7 @@ beforeAll(async () => {
   const procedures = (await tech.get('/api/procedures')).body
   const list = Array.isArray(procedures) ? procedures : procedures.rows
   const plate = list.find((p: { name: string }) => /flat plate/i.test(p.name))
-  const instrument = (await tech.get('/api/instruments?q=NV814-BF02184')).body.rows[0]
+  const instrument = (await tech.get('/api/instruments?q=NV814-KF01555')).body.rows[0]
   const created = await tech.post('/api/runs', {
     instrumentId: instrument.id,
     procedureVersionId: plate.currentVersion.id,
@@ -99,5 +99,43 @@ describe('a calibration run, end to end', () => {
     expect(await page.getByTestId('approved-note').textContent()).toContain('locked')
     expect(await page.locator('[data-row="0"] [data-col="readings"]').isDisabled()).toBe(true)
     expect(await page.locator('[data-testid^="save-point-"]').count()).toBe(0)
+  })
+
+  it('the quality manager signs the certificate; the customer downloads it; anyone can verify it', async () => {
+    const { page } = browser
+    await page.getByTestId('issue-certificate').click()
+    await page.locator('#sign-password').fill('not-my-password')
+    await page.getByTestId('sign-submit').click()
+    await expect.poll(() => page.locator('[data-field-error="password"]').count()).toBe(1)
+    await page.locator('#sign-password').fill('bandlight-demo')
+    await page.getByTestId('sign-submit').click()
+    await page.waitForSelector('[data-testid="certificate-number"]')
+    const number = (await page.getByTestId('certificate-number').textContent())!.trim()
+    expect(number).toMatch(/^[A-Z]+-\d{4}-\d+$/)
+    await shot(page, 'run-certificate')
+    await page.getByTestId('sign-out').click()
+    await page.waitForURL(/\/login/)
+
+    await signIn(page, DEMO_ACCOUNTS.customer)
+    await page.goto(`${BASE_URL}/certificates`)
+    await page.locator('tbody tr', { hasText: number }).click()
+    await page.waitForURL(/\/certificates\/\d+$/)
+    const href = await page.getByTestId('download-pdf').getAttribute('href')
+    const pdf = await page.evaluate(async (url) => {
+      const r = await fetch(url!)
+      const b = new Uint8Array(await r.arrayBuffer())
+      return { type: r.headers.get('content-type'), head: String.fromCharCode(...b.slice(0, 5)) }
+    }, href)
+    expect(pdf.type).toContain('application/pdf')
+    expect(pdf.head).toBe('%PDF-')
+    const code = (await page.locator('dd.font-mono').first().textContent())!.trim()
+    await shot(page, 'certificate-customer')
+    await page.getByTestId('sign-out').click()
+    await page.waitForURL(/\/login/)
+
+    await page.goto(`${BASE_URL}/verify?number=${encodeURIComponent(number)}&code=${encodeURIComponent(code)}`)
+    await expect.poll(() => page.getByTestId('verify-result').textContent()).toMatch(/Valid/)
+    expect(await page.getByTestId('verify-result').textContent()).toContain('NV814-KF01555')
+    await shot(page, 'verify')
   })
 })
