@@ -29,6 +29,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/reference-instruments', label: 'Reference instruments', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/responsivities', label: 'Responsivity tables', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
   { to: '/procedures', label: 'Procedures', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
+  { to: '/admin/lab', label: 'Laboratory settings', roles: ['admin'], group: 'Administration' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
   { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
   { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },

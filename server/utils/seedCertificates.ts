@@ -1,8 +1,9 @@
 /**
  * The invented demo laboratory's settings (Harrowfield Radiometric Calibration Laboratory, an
- * invented address and accreditation) and one issued certificate: the approved demo run of the
- * customer's KF-IR-013, signed by the demo quality manager. Idempotent: the settings row is created
- * once; a run that already has a certificate is left alone.
+ * invented address and accreditation) and certificates for the two approved demo runs, signed by
+ * the demo quality manager: KF-IR-013's issued and then amended, BF-IR-002's issued and then
+ * withdrawn. Idempotent: the settings row is created once; a run that already has a certificate is
+ * left alone.
  */
 import type { Transaction } from 'sequelize'
 import { CalibrationRun } from '../models/CalibrationRun'
@@ -11,7 +12,7 @@ import { Instrument } from '../models/Instrument'
 import { LabSettings } from '../models/LabSettings'
 import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
-import { issueCertificateIn } from './certificates'
+import { amendCertificateIn, issueCertificateIn, withdrawCertificateIn } from './certificates'
 
 export const DEMO_LAB = {
   name: 'Harrowfield Radiometric Calibration Laboratory',
@@ -41,10 +42,23 @@ export async function seedCertificates(t: Transaction): Promise<number> {
     created++
   }
   const quality = await User.findOne({ where: { email: 'quality@bandlight.test' }, transaction: t })
-  const instrument = await Instrument.findOne({ where: { assetTag: 'KF-IR-013' }, transaction: t })
-  if (!quality || !instrument) return created
-  const run = await CalibrationRun.findOne({ where: { instrumentId: instrument.id, status: 'approved' }, order: [['calibrationDate', 'ASC']], transaction: t })
-  if (!run || await Certificate.count({ where: { runId: run.id }, transaction: t })) return created
-  await issueCertificateIn(t, { user: quality, signatoryFunction: 'Quality manager' }, run.id, 'seed')
-  return created + 1
+  if (!quality) return created
+  const signer = { user: quality, signatoryFunction: 'Quality manager' }
+  // KF-IR-013: issued, then amended (a corrected customer reference); BF-IR-002: issued, then withdrawn.
+  const demo = [
+    { assetTag: 'KF-IR-013', then: 'amend' as const, reason: 'Customer asset reference corrected on the customer\'s request; results unchanged.' },
+    { assetTag: 'BF-IR-002', then: 'withdraw' as const, reason: 'Issued against the wrong purchase order; the customer asked for it to be withdrawn.' },
+  ]
+  for (const d of demo) {
+    const instrument = await Instrument.findOne({ where: { assetTag: d.assetTag }, transaction: t })
+    if (!instrument) continue
+    const run = await CalibrationRun.findOne({ where: { instrumentId: instrument.id, status: 'approved' }, order: [['calibrationDate', 'ASC']], transaction: t })
+    if (!run || await Certificate.count({ where: { runId: run.id }, transaction: t })) continue
+    const cert = await issueCertificateIn(t, signer, run.id, 'seed')
+    created++
+    if (d.then === 'amend') await amendCertificateIn(t, signer, cert.id, d.reason)
+    else await withdrawCertificateIn(t, quality, cert.id, d.reason)
+    created++
+  }
+  return created
 }

@@ -64,4 +64,18 @@ describe('administration pages', () => {
     await expect.poll(() => page.locator('pre').nth(1).textContent()).toContain(name)
     await shot(page, 'admin-audit')
   })
+
+  it('edits the laboratory settings printed on certificates', async () => {
+    const { page } = browser
+    await page.goto(`${BASE_URL}/admin/lab`)
+    await page.waitForSelector('[data-testid="lab-form"]')
+    await page.locator('#accreditationNumber').fill('')
+    await page.getByTestId('save-lab').click()
+    await expect.poll(() => page.locator('[data-field-error="accreditationNumber"]').count()).toBe(1)
+    await page.locator('#accreditationNumber').fill('NAB-CL-0917')
+    await page.locator('#phone').fill('+44 1632 960 734')
+    await page.getByTestId('save-lab').click()
+    await expect.poll(() => page.getByTestId('notice').textContent()).toMatch(/Saved/)
+    await shot(page, 'admin-lab')
+  })
 })
