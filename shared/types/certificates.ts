@@ -78,3 +78,14 @@ export interface CertificateVerificationDTO {
   instrumentSerial: string
   status: CertificateStatus
 }
+
+/** GET /api/instruments/[id]/history: each certified calibration (valid certificates) with its points. */
+export interface InstrumentHistoryDTO {
+  instrumentId: number
+  calibrations: {
+    certificateId: number
+    number: string
+    calibrationDate: string
+    points: { stage: 'as-found' | 'as-left', referenceTemperatureK: number, errorK: number, uncertaintyK: number, toleranceK: number, verdict: string }[]
+  }[]
+}

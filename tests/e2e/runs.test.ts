@@ -130,6 +130,11 @@ describe('a calibration run, end to end', () => {
     expect(pdf.head).toBe('%PDF-')
     const code = (await page.locator('dd.font-mono').first().textContent())!.trim()
     await shot(page, 'certificate-customer')
+    const mine = (await (await signedIn('customer')).get(`/api/certificates?q=${encodeURIComponent(number)}`)).body.rows[0]
+    await page.goto(`${BASE_URL}/instruments/${mine.instrumentId}`)
+    await page.waitForSelector('[data-testid="history-chart"] canvas')
+    expect(await page.getByTestId('instrument-history').textContent()).toContain(number)
+    await shot(page, 'instrument-history-customer')
     await page.getByTestId('sign-out').click()
     await page.waitForURL(/\/login/)
 
