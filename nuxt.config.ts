@@ -57,6 +57,8 @@ export default defineNuxtConfig({
   nitro: {
     output: process.env.BANDLIGHT_OUTPUT_DIR ? { dir: process.env.BANDLIGHT_OUTPUT_DIR } : undefined,
     experimental: { tasks: true },
+    // Hourly; the job itself checks the send hour in the lab's time zone (MailSettings).
+    scheduledTasks: { '5 * * * *': ['reminders:daily'] },
     virtual: {
       '#bandlight/mc-worker': () => `export default ${JSON.stringify(monteCarloWorkerSource())}`,
     },

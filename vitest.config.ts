@@ -2,6 +2,7 @@ import { defineConfig } from 'vitest/config'
 
 // Three kinds of test, each its own project:
 //   unit — pure modules in shared/ (no server, no browser)
+//   integration — server modules against a temporary SQLite database (and a local SMTP server), no HTTP
 //   api  — HTTP against the built server (started by scripts/test-server.ts)
 //   e2e  — real Chromium (Debian's /usr/bin/chromium) against the same server
 export default defineConfig({
@@ -12,6 +13,16 @@ export default defineConfig({
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],
           environment: 'node',
+        },
+      },
+      {
+        test: {
+          name: 'integration',
+          include: ['tests/integration/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
         },
       },
       {

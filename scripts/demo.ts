@@ -1,10 +1,13 @@
 /**
  * npm run demo — build if needed, migrate, seed the invented demo laboratory and
- * start the built server on PORT (default 3000) with DATABASE_URL.
+ * start the built server on PORT (default 3000) with DATABASE_URL. Unless SMTP_URL is given,
+ * a local mail server on 127.0.0.1:2525 receives the e-mails into <data dir>/mailbox, which the
+ * admin Mail page shows.
  */
 import crypto from 'node:crypto'
 import fs from 'node:fs'
 import path from 'node:path'
+import { startMailSink, type MailSink } from './lib/mailSink'
 import { buildIsStale, run, startServer } from './lib/server'
 import { DEFAULT_DATABASE_URL, databasePath } from '../server/utils/db'
 
@@ -27,12 +30,23 @@ if (!sessionPassword) {
   sessionPassword = fs.readFileSync(secretFile, 'utf8').trim()
 }
 
-const env = { ...process.env, DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, BANDLIGHT_SEED: 'demo' }
+const dataDir = dbFile === ':memory:' ? path.resolve('data') : path.dirname(dbFile)
+let sink: MailSink | null = null
+const mailEnv: Record<string, string> = {}
+if (!process.env.SMTP_URL) {
+  const mailbox = process.env.BANDLIGHT_MAILBOX_DIR || path.join(dataDir, 'mailbox')
+  sink = await startMailSink({ port: 2525, dir: mailbox })
+  mailEnv.SMTP_URL = `smtp://127.0.0.1:${sink.port}`
+  mailEnv.BANDLIGHT_MAILBOX_DIR = mailbox
+}
+
+const env = { ...process.env, DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, BANDLIGHT_SEED: 'demo', ...mailEnv }
 const server = await startServer(env, port)
 
 console.log(`
   Bandlight demo is running at http://localhost:${port}
   Database: ${dbFile}
+  Mail: ${sink ? `local mail server on 127.0.0.1:${sink.port}, messages in ${sink.dir} (admin → Mail)` : `sent to ${process.env.SMTP_URL}`}
 
   Demo accounts (password for each: bandlight-demo — demo only, change them on a real installation)
     admin@bandlight.test        administrator
@@ -44,4 +58,7 @@ console.log(`
 `)
 
 for (const sig of ['SIGINT', 'SIGTERM'] as const) process.on(sig, () => server.kill(sig))
-server.on('exit', code => process.exit(code ?? 0))
+server.on('exit', async (code) => {
+  await sink?.close()
+  process.exit(code ?? 0)
+})

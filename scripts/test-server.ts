@@ -1,11 +1,14 @@
 /**
  * Runs the API and browser tests against one built server on a free port with a
- * temporary database seeded with the demo scenario. `npm test` builds first.
+ * temporary database seeded with the demo scenario, and a local mail server on another free
+ * port whose messages land in <temp dir>/mailbox (BANDLIGHT_MAILBOX_DIR, also given to the
+ * tests). `npm test` builds first.
  */
 import crypto from 'node:crypto'
 import fs from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
+import { startMailSink } from './lib/mailSink'
 import { SERVER_ENTRY, freePort, run, startServer } from './lib/server'
 
 if (!fs.existsSync(SERVER_ENTRY)) {
@@ -15,6 +18,8 @@ if (!fs.existsSync(SERVER_ENTRY)) {
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-test-'))
 const port = await freePort()
+const mailbox = path.join(dir, 'mailbox')
+const sink = await startMailSink({ port: 0, dir: mailbox, quiet: true })
 const env = {
   ...process.env,
   DATABASE_URL: `sqlite:${path.join(dir, 'test.sqlite')}`,
@@ -22,6 +27,9 @@ const env = {
   BANDLIGHT_SEED: 'demo',
   TRUST_PROXY: '1',
   BANDLIGHT_DATA_DIR: path.join(dir, 'files'),
+  SMTP_URL: `smtp://127.0.0.1:${sink.port}`,
+  BANDLIGHT_MAILBOX_DIR: mailbox,
+  MAIL_SEND_INTERVAL_MS: '500',
 }
 const server = await startServer(env, port, { quiet: true })
 let code = 1
@@ -40,6 +48,7 @@ try {
 finally {
   server.kill('SIGTERM')
   await new Promise(r => setTimeout(r, 300))
+  await sink.close()
   fs.rmSync(dir, { recursive: true, force: true })
 }
 process.exit(code)

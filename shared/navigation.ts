@@ -33,6 +33,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
   { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
   { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },
+  { to: '/admin/mail', label: 'Mail', roles: ['admin'], group: 'Administration' },
 ]
 
 export function navFor(role: Role): NavItem[] {

@@ -6,6 +6,7 @@ import * as m0001 from './0001-foundation'
 import * as m0002 from './0002-registers'
 import * as m0003 from './0003-runs'
 import * as m0004 from './0004-certificates'
+import * as m0005 from './0005-mail'
 import * as m0006 from './0006-requests'
 
 export const migrations = [
@@ -13,5 +14,6 @@ export const migrations = [
   { name: '0002-registers', ...m0002 },
   { name: '0003-runs', ...m0003 },
   { name: '0004-certificates', ...m0004 },
+  { name: '0005-mail', ...m0005 },
   { name: '0006-requests', ...m0006 },
 ]

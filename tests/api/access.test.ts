@@ -4,7 +4,7 @@ import { ROLES } from '../../shared/roles'
 import { Client, signedIn } from '../support/http'
 import { apiRoutes } from '../support/routes'
 
-const OPEN = ['/api/auth/login', '/api/health', '/api/verify', '/api/verify/file']
+const OPEN = ['/api/auth/login', '/api/health', '/api/verify', '/api/verify/file', '/api/mail/unsubscribe']
 const routes = apiRoutes()
 
 describe('route enumeration', () => {
