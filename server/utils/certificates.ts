@@ -35,6 +35,7 @@ import { calibrationsOf, checkMerged, invalidInput, prefixSearch } from './regis
 import { assertVersion } from './transaction'
 import { clearFailures, recordFailure, throttledFor } from './throttle'
 import { storeUploadBytes, uploadFilePath } from './uploads'
+import { notifyCertificateIssued } from './eventMail'
 
 // ---------------------------------------------------------------- settings
 
@@ -318,6 +319,7 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
   }, { transaction: t })
   await recordAudit(t, { userId: signer.user.id, action: auditAction, entity: 'Certificate', entityId: cert.id, after: snapshot(cert, ['content']) })
   await setNextDue(t, signer.user.id, g.instrument, run.calibrationDate, cert.number)
+  await notifyCertificateIssued(t, cert)
   return cert
 }
 

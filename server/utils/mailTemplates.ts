@@ -136,3 +136,11 @@ ${addressText(lab)}
 ${linesTableHtml(lines, ['Asset', 'Equipment', 'Due'])}`
   return { subject, text, html: htmlPage(lab, body, '') }
 }
+
+/** A short event message (request received or accepted, certificate issued) with an optional link. */
+export function eventMail(input: { lab: LabIdentity, subject: string, greeting: string, paragraphs: string[], link?: { url: string, label: string } }): RenderedMail {
+  const { lab, subject, greeting, paragraphs, link } = input
+  const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(link ? [`${link.label}: ${link.url}`, ''] : []), addressText(lab)].join('\n')
+  const body = `<p style="margin:0 0 12px">${escapeHtml(greeting)}</p>${paragraphs.map(p => `<p style="margin:0 0 12px">${escapeHtml(p)}</p>`).join('')}${link ? `<p style="margin:16px 0"><a href="${escapeHtml(link.url)}" style="color:#1d7e75;font-weight:bold">${escapeHtml(link.label)}</a></p>` : ''}`
+  return { subject, text, html: htmlPage(lab, body, '') }
+}

@@ -13,6 +13,7 @@ import { User } from '../models/User'
 import { notFound, organizationScope } from './access'
 import { recordAudit, snapshot } from './audit'
 import { invalidInput } from './registers'
+import { notifyRequestAccepted, notifyRequestReceived } from './eventMail'
 import { createRunIn } from './runs'
 import { assertVersion } from './transaction'
 
@@ -82,6 +83,7 @@ export async function createRequestIn(t: Transaction, user: SessionUser, input: 
     response: null,
   }, { transaction: t })
   await recordAudit(t, { userId: user.id, action: 'create', entity: 'CalibrationRequest', entityId: r.id, after: snapshot(r) })
+  await notifyRequestReceived(t, r)
   return r
 }
 
@@ -113,6 +115,7 @@ export async function acceptRequestIn(t: Transaction, user: SessionUser, id: num
   r.set({ status: 'accepted', handledBy: user.id, handledAt: new Date(), response: input.response ?? null, runIds })
   await r.save({ transaction: t })
   await recordAudit(t, { userId: user.id, action: 'accept', entity: 'CalibrationRequest', entityId: r.id, before, after: snapshot(r) })
+  await notifyRequestAccepted(t, r)
   return r
 }
 

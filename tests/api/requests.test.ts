@@ -33,6 +33,14 @@ describe('calibration requests', () => {
     // The customer reads the lab's answer, and the request cannot be accepted twice.
     const mine = (await customer.get(`/api/requests/${created.body.id}`)).body
     expect(mine).toMatchObject({ status: 'accepted', response: 'Booked for the week of 4 January.' })
+    // The customer is told by e-mail, once each: received, then accepted (queued in the outbox).
+    const admin = await signedIn('admin')
+    for (const kind of ['request-received', 'request-accepted']) {
+      const out = (await admin.get(`/api/admin/mail/outbox?kind=${kind}&pageSize=100`)).body.rows as { subject: string, recipients: string[] }[]
+      const mine = out.filter(m => m.subject.includes(`request ${created.body.id} `))
+      expect(mine, kind).toHaveLength(1)
+      expect(mine[0]!.recipients).toEqual(['customer@bandlight.test'])
+    }
     const again = await tech.post(`/api/requests/${created.body.id}/accept`, { version: accepted.body.version, procedureVersionId: proc.currentVersion.id, receivedDate: '2026-12-01' })
     expect(again.status).toBe(409)
   })

@@ -25,9 +25,9 @@ describe('mail page', () => {
     await page.getByTestId('tab-received').click()
     await expect.poll(async () => {
       await page.waitForTimeout(500)
-      return page.locator('[data-testid="received-table"] tbody tr', { hasText: 'kestrelmoor.example' }).count()
+      return page.locator('[data-testid="received-table"] tbody tr', { hasText: 'kestrelmoor.example' }).filter({ hasText: /Recalibration/ }).count()
     }, { timeout: 15_000 }).toBeGreaterThan(0)
-    await page.locator('[data-testid="received-table"] tbody tr', { hasText: 'kestrelmoor.example' }).first().click()
+    await page.locator('[data-testid="received-table"] tbody tr', { hasText: 'kestrelmoor.example' }).filter({ hasText: /Recalibration/ }).first().click()
     await page.getByTestId('mail-message').waitFor()
     expect(await page.getByTestId('mail-message-subject').textContent()).toMatch(/Recalibration/)
     const frame = page.getByTestId('mail-message-html')
