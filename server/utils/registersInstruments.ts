@@ -103,3 +103,8 @@ export async function importInstruments(user: SessionUser, input: CsvImportInput
   })
   return { created: values.length }
 }
+
+/** What a viewer may see of an instrument: the laboratory's own notes never reach a customer. */
+export function visibleTo<T extends { notes: string | null }>(dto: T, user: { role: string }): T {
+  return user.role === 'customer' ? { ...dto, notes: null } : dto
+}

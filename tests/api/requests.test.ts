@@ -91,3 +91,21 @@ describe('calibration requests', () => {
     expect(((await stranger.get('/api/requests')).body.rows as { id: number }[]).map(r => r.id)).not.toContain(mine.id)
   })
 })
+
+describe('what customers never see', () => {
+  it('the laboratory\'s notes on an instrument, and another organization\'s instrument history', async () => {
+    const tech = await signedIn('technician')
+    const { customer, list } = await ownInstruments()
+    const target = (await tech.get(`/api/instruments/${list[4]!.id}`)).body
+    const noted = await tech.patch(`/api/instruments/${target.id}`, { notes: 'Lab only: display cracked, handle with care', version: target.version })
+    expect(noted.status).toBe(200)
+    expect((await customer.get(`/api/instruments/${target.id}`)).body.notes).toBeNull()
+    const row = ((await customer.get('/api/instruments?pageSize=200')).body.rows as { id: number, notes: string | null }[]).find(r => r.id === target.id)
+    expect(row?.notes).toBeNull()
+    expect((await tech.get(`/api/instruments/${target.id}`)).body.notes).toContain('Lab only')
+    // History of an instrument of another organization: 404 for the customer, data for the lab.
+    const foreign = ((await tech.get('/api/instruments?pageSize=200')).body.rows as { id: number, organizationName: string }[]).find(i => i.organizationName !== 'Kestrelmoor Foundry Ltd')!
+    expect((await customer.get(`/api/instruments/${foreign.id}/history`)).status).toBe(404)
+    expect((await tech.get(`/api/instruments/${foreign.id}/history`)).status).toBe(200)
+  })
+})

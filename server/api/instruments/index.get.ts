@@ -3,7 +3,7 @@ import { instrumentQuerySchema } from '../../../shared/schemas/registerQuery'
 import type { InstrumentDTO, Page } from '../../../shared/types'
 import { requireRole } from '../../utils/access'
 import { queryInstruments } from '../../utils/instrumentQuery'
-import { instrumentDTOs } from '../../utils/registersInstruments'
+import { instrumentDTOs, visibleTo } from '../../utils/registersInstruments'
 import { parseWith } from '../../utils/validation'
 
 /**
@@ -15,5 +15,5 @@ export default defineEventHandler(async (event): Promise<Page<InstrumentDTO>> =>
   const q = await getValidatedQuery(event, parseWith(instrumentQuerySchema))
   const organizationId = user.role === 'customer' ? (user.organizationId ?? -1) : q.organizationId
   const { rows, total } = await queryInstruments({ ...q, organizationId })
-  return { rows: await instrumentDTOs(rows), total, page: q.page, pageSize: q.pageSize }
+  return { rows: (await instrumentDTOs(rows)).map(r => visibleTo(r, user)), total, page: q.page, pageSize: q.pageSize }
 })
