@@ -38,5 +38,22 @@ export function useRegisterList<T>(key: string, endpoint: string, defaults: { so
   }
 
   const pages = computed(() => Math.max(1, Math.ceil((data.value?.total ?? 0) / state.pageSize)))
-  return { state, data, pending, error, refresh, pages, resetPage, query }
+
+  // The search box: what is typed reaches the query 250 ms after the last key. A new search or
+  // filter starts again from page 1.
+  const search = ref(state.q)
+  let timer: ReturnType<typeof setTimeout> | undefined
+  watch(search, (v) => {
+    clearTimeout(timer)
+    timer = setTimeout(() => {
+      state.q = v
+      resetPage()
+    }, 250)
+  })
+  watch(() => ({ ...state.filters }), resetPage)
+
+  /** The list's export route with the same filters, sort and search (every row, no paging). */
+  const exportHref = computed(() => `${endpoint}/export?${new URLSearchParams(Object.entries(query.value).filter(([k]) => !['page', 'pageSize'].includes(k)).map(([k, v]) => [k, String(v)]))}`)
+
+  return { state, data, pending, error, refresh, pages, resetPage, query, search, exportHref }
 }
