@@ -36,6 +36,7 @@ import { assertVersion } from './transaction'
 import { clearFailures, recordFailure, throttledFor } from './throttle'
 import { storeUploadBytes, uploadFilePath } from './uploads'
 import { notifyCertificateIssued } from './eventMail'
+import { publicBaseUrl } from './publicUrl'
 
 // ---------------------------------------------------------------- settings
 
@@ -121,10 +122,6 @@ function assertSignatoryFunction(settings: LabSettings, fn: string): string {
 // ---------------------------------------------------------------- data of a certificate
 
 /** The public address of the laboratory's verification page (env PUBLIC_BASE_URL). */
-export function publicBaseUrl(): string {
-  return (process.env.PUBLIC_BASE_URL || 'http://localhost:3000').replace(/\/+$/, '')
-}
-
 export function verificationUrl(number: string, code: string): string {
   return `${publicBaseUrl()}/verify?number=${encodeURIComponent(number)}&code=${encodeURIComponent(code)}`
 }

@@ -11,8 +11,8 @@ import { Contact } from '../models/Contact'
 import { Organization } from '../models/Organization'
 import { User } from '../models/User'
 import { eventMail, labIdentity } from './mailTemplates'
-import { mailBaseUrl } from './mailTokens'
 import { queueEventMail } from './outbox'
+import { publicBaseUrl } from './publicUrl'
 
 async function requester(t: Transaction, r: CalibrationRequest) {
   return await User.findByPk(r.requestedBy, { attributes: ['name', 'email'], transaction: t })
@@ -26,7 +26,7 @@ export async function notifyRequestReceived(t: Transaction, r: CalibrationReques
     subject: `Calibration request ${r.id} received`,
     greeting: `Dear ${user.name},`,
     paragraphs: [`We have received your request ${r.id} for ${r.instrumentIds.length} instrument(s)${r.preferredDate ? `, preferably on ${r.preferredDate}` : ''}. We will confirm a date.`],
-    link: { url: `${mailBaseUrl()}/requests`, label: 'Follow your requests' },
+    link: { url: `${publicBaseUrl()}/requests`, label: 'Follow your requests' },
   })
   await queueEventMail(t, { kind: 'request-received', to: [user.email], ...m, dedupeKey: `request-${r.id}` })
 }
@@ -39,7 +39,7 @@ export async function notifyRequestAccepted(t: Transaction, r: CalibrationReques
     subject: `Calibration request ${r.id} accepted`,
     greeting: `Dear ${user.name},`,
     paragraphs: [`Your request ${r.id} has been accepted.`, ...(r.response ? [r.response] : [])],
-    link: { url: `${mailBaseUrl()}/requests`, label: 'See the request' },
+    link: { url: `${publicBaseUrl()}/requests`, label: 'See the request' },
   })
   await queueEventMail(t, { kind: 'request-accepted', to: [user.email], ...m, dedupeKey: `request-${r.id}` })
 }
@@ -55,7 +55,7 @@ export async function notifyCertificateIssued(t: Transaction, cert: Certificate)
     subject: `Calibration certificate ${cert.number} issued`,
     greeting: `Dear ${org.name},`,
     paragraphs: [`Certificate ${cert.number} for instrument ${cert.instrumentSerial}, calibrated on ${cert.calibrationDate}, has been issued and signed.`, 'You can download it from the customer portal.'],
-    link: { url: `${mailBaseUrl()}/certificates/${cert.id}`, label: 'Open the certificate' },
+    link: { url: `${publicBaseUrl()}/certificates/${cert.id}`, label: 'Open the certificate' },
   })
   await queueEventMail(t, { kind: 'certificate-issued', to, ...m, dedupeKey: `certificate-${cert.number}` })
 }

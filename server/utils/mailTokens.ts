@@ -5,6 +5,7 @@
  * expire: a link in a year-old reminder still works. No Nuxt or Nitro imports.
  */
 import crypto from 'node:crypto'
+import { publicBaseUrl } from './publicUrl'
 
 function tokenKey(): string {
   const key = process.env.MAIL_TOKEN_SECRET || process.env.NUXT_SESSION_PASSWORD
@@ -30,11 +31,7 @@ export function verifyUnsubscribeToken(token: string): number | null {
   return given.length === expected.length && crypto.timingSafeEqual(given, expected) ? id : null
 }
 
-/** The public base URL links in e-mails start with (`PUBLIC_BASE_URL`, default http://localhost:3000). */
-export function mailBaseUrl(): string {
-  return (process.env.PUBLIC_BASE_URL || 'http://localhost:3000').replace(/\/+$/, '')
-}
-
+/** The signed unsubscribe link for a contact, on the public address. */
 export function unsubscribeUrl(contactId: number): string {
-  return `${mailBaseUrl()}/api/mail/unsubscribe?token=${encodeURIComponent(unsubscribeToken(contactId))}`
+  return `${publicBaseUrl()}/api/mail/unsubscribe?token=${encodeURIComponent(unsubscribeToken(contactId))}`
 }
