@@ -9,7 +9,8 @@ import fs from 'node:fs'
 import path from 'node:path'
 import { startMailSink, type MailSink } from './lib/mailSink'
 import { buildIsStale, run, startServer } from './lib/server'
-import { DEFAULT_DATABASE_URL, databasePath } from '../server/utils/db'
+import { DEFAULT_DATABASE_URL } from '../server/utils/config'
+import { databasePath } from '../server/utils/db'
 
 const port = Number(process.env.PORT) || 3000
 const databaseUrl = process.env.DATABASE_URL || DEFAULT_DATABASE_URL

@@ -22,6 +22,63 @@ async function timeRequests(n: number, fn: () => Promise<Response>): Promise<num
   return (performance.now() - t0) / n
 }
 
+function percentile(sorted: number[], p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1)]!
+}
+
+/**
+ * Writes through the API on SQLite: the same number of instrument creations by one writer after
+ * another, then by 64 concurrent writers (the write queue serves them in turn). Throughput, p50,
+ * p95 and errors side by side.
+ */
+async function concurrentWriters(base: string, cookie: string, total: number): Promise<void> {
+  const orgs = await (await fetch(`${base}/api/customers?pageSize=1`, { headers: { cookie } })).json() as { rows: { id: number }[] }
+  const organizationId = orgs.rows[0]!.id
+  let serial = 0
+  const create = async (): Promise<{ ms: number, status: number }> => {
+    const t0 = performance.now()
+    const r = await fetch(`${base}/api/instruments`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', cookie },
+      body: JSON.stringify({
+        organizationId, serial: `BENCH-${process.pid}-${++serial}`, maker: 'Ormsby Radiometrics', model: 'Spot 8', kind: 'spot-infrared',
+        bandLambda1Um: 8, bandLambda2Um: 14, distanceToSpot: 12, rangeMinK: 243.15, rangeMaxK: 773.15,
+        defaultEmissivity: 0.95, resolutionK: 0.1, accuracy: { kind: 'greaterOf', a: 1, b: 1 }, calibrationIntervalMonths: 12,
+      }),
+    })
+    await r.arrayBuffer()
+    return { ms: performance.now() - t0, status: r.status }
+  }
+  const measure = async (writers: number) => {
+    const latencies: number[] = []
+    let errors = 0
+    let next = 0
+    const t0 = performance.now()
+    await Promise.all(Array.from({ length: writers }, async () => {
+      while (next < total) {
+        next++
+        const r = await create()
+        latencies.push(r.ms)
+        if (r.status !== 201) errors++
+      }
+    }))
+    const seconds = (performance.now() - t0) / 1000
+    latencies.sort((a, b) => a - b)
+    return { writers, perSecond: latencies.length / seconds, p50: percentile(latencies, 0.5), p95: percentile(latencies, 0.95), errors }
+  }
+  const one = await measure(1)
+  const many = await measure(64)
+  console.log(`Concurrent writes on SQLite (${total} instrument creations each way, one server)`)
+  console.table([one, many].map(m => ({
+    'writers': m.writers,
+    'writes/s': m.perSecond.toFixed(0),
+    'p50 ms': m.p50.toFixed(1),
+    'p95 ms': m.p95.toFixed(1),
+    'errors': m.errors,
+  })))
+  console.log(`64 writers vs 1: throughput ×${(many.perSecond / one.perSecond).toFixed(2)}, p95 ×${(many.p95 / one.p95).toFixed(1)}; errors ${many.errors} (target 0 → ${many.errors === 0 ? 'met' : 'NOT met'})`)
+}
+
 export async function runServerBench(opts: { quick?: boolean } = {}): Promise<void> {
   if (!fs.existsSync(SERVER_ENTRY)) {
     console.log('server bench skipped: no .output (run `npm run build` first)')
@@ -71,6 +128,8 @@ export async function runServerBench(opts: { quick?: boolean } = {}): Promise<vo
     rows.push({ what: `POST /api/calculations/monte-carlo, 10⁶ trials (${Math.min(4, os.availableParallelism?.() ?? 1)} workers), best of ${runs}`, value: `${(best / 1000).toFixed(2)} s`, target: `≤ 2 s → ${best <= 2000 ? 'met' : 'NOT met'} (ratio ${(best / 2000).toFixed(2)})` })
     console.log('Server (HTTP, built app, one client)')
     console.table(rows)
+    console.log('')
+    await concurrentWriters(base, cookie, opts.quick ? 128 : 640)
   }
   finally {
     server.kill('SIGTERM')

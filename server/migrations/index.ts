@@ -8,6 +8,7 @@ import * as m0003 from './0003-runs'
 import * as m0004 from './0004-certificates'
 import * as m0005 from './0005-mail'
 import * as m0006 from './0006-requests'
+import * as m0007 from './0007-sessions-throttles'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -16,4 +17,5 @@ export const migrations = [
   { name: '0004-certificates', ...m0004 },
   { name: '0005-mail', ...m0005 },
   { name: '0006-requests', ...m0006 },
+  { name: '0007-sessions-throttles', ...m0007 },
 ]

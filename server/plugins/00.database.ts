@@ -1,3 +1,4 @@
+import { config } from '../utils/config'
 import { migrate } from '../utils/migrate'
 import { seedDemo } from '../utils/seed'
 
@@ -10,7 +11,7 @@ export default defineNitroPlugin(async (nitroApp) => {
   const ready = (async () => {
     const applied = await migrate()
     if (applied.length) console.log(`[bandlight] migrations applied: ${applied.join(', ')}`)
-    if (process.env.BANDLIGHT_SEED === 'demo') {
+    if (config().seed === 'demo') {
       const summary = await seedDemo()
       console.log(`[bandlight] demo data: ${summary}`)
     }

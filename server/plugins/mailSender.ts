@@ -1,3 +1,4 @@
+import { config } from '../utils/config'
 import { sendQueued } from '../utils/outbox'
 
 /**
@@ -7,9 +8,8 @@ import { sendQueued } from '../utils/outbox'
  * distinct error and retried on the next tick.
  */
 export default defineNitroPlugin((nitroApp) => {
-  const raw = process.env.MAIL_SEND_INTERVAL_MS
-  const interval = raw === undefined || raw === '' ? 5000 : Number(raw)
-  if (!Number.isFinite(interval) || interval <= 0) return
+  const interval = config().mail.sendIntervalMs
+  if (interval <= 0) return
   let busy = false
   let lastError = ''
   const timer = setInterval(async () => {

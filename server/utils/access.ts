@@ -2,37 +2,41 @@ import type { H3Event } from 'h3'
 import type { WhereOptions } from 'sequelize'
 import type { Role } from '../../shared/roles'
 import type { SessionUser } from '../../shared/types'
-import { User } from '../models/User'
+import { recordAudit } from './audit'
+import { clientAddress, clientUserAgent } from './request'
+import { currentUser, toSessionUser } from './sessions'
+import { inTransaction } from './transaction'
 
-export function toSessionUser(user: User): SessionUser {
-  return {
-    id: user.id,
-    name: user.name,
-    email: user.email,
-    role: user.role,
-    organizationId: user.organizationId ?? null,
-  }
-}
 
 /**
- * The signed-in user, checked against the database on every call (a deactivated
- * user or a changed role takes effect at once), or 401 / 403.
+ * The signed-in user of a live session, checked against the database on every call (a revoked
+ * session, a deactivated user or a changed role takes effect at once), or 401 / 403.
  * With no roles given any signed-in user passes. Call it first in every handler,
  * before validation, so an anonymous caller learns nothing about the input rules.
+ * A refusal (403) is written to the audit trail with the caller's address and user agent.
  */
 export async function requireRole(event: H3Event, ...roles: Role[]): Promise<SessionUser> {
-  const session = await getUserSession(event)
-  const id = session.user?.id
-  if (!id) throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Sign in to continue' })
-  const user = await User.findByPk(id)
-  if (!user || !user.active) {
+  const user = await currentUser(event)
+  if (!user) {
     await clearUserSession(event)
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Sign in to continue' })
   }
   if (roles.length > 0 && !roles.includes(user.role)) {
+    await auditRefusal(event, user.id, user.role)
     throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Your role may not do this' })
   }
   return toSessionUser(user)
+}
+
+/** Record a refused request (403) in the audit trail. */
+export async function auditRefusal(event: H3Event, userId: number, role: Role): Promise<void> {
+  await inTransaction(t => recordAudit(t, {
+    userId,
+    action: 'refused',
+    entity: 'Request',
+    entityId: null,
+    after: { method: event.method, path: event.path.split('?')[0]!.slice(0, 300), role, address: clientAddress(event), userAgent: clientUserAgent(event) },
+  }))
 }
 
 /**

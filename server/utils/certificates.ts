@@ -8,7 +8,8 @@
  */
 import crypto from 'node:crypto'
 import fs from 'node:fs'
-import { Op, type Transaction, type WhereOptions } from 'sequelize'
+import type { H3Event } from 'h3'
+import { Op, type Transaction } from 'sequelize'
 import { COVERAGE_PROBABILITY, DECISION_RULE_LABELS } from '../../shared/calibration/constants'
 import { SIGNATURE_MEANING } from '../../shared/certificates/constants'
 import { addMonths, counterYear, formatCertificateNumber, normalizeVerificationCode, revisionNumber, verificationCodeFrom } from '../../shared/certificates/numbers'
@@ -28,12 +29,15 @@ import { ReferenceInstrument } from '../models/ReferenceInstrument'
 import { RunPoint } from '../models/RunPoint'
 import { SpectralResponse } from '../models/SpectralResponse'
 import { User } from '../models/User'
-import { notFound } from './access'
+import { notFound, organizationScope } from './access'
 import { recordAudit, snapshot } from './audit'
 import { certificatePdf, type CertificateData, type CertificateEquipment } from './certificatePdf'
-import { calibrationsOf, checkMerged, invalidInput, prefixSearch } from './registers'
+import { calibrationsOf, checkMerged, invalidInput } from './registers'
+import { ListFilter } from './search'
 import { assertVersion } from './transaction'
-import { clearFailures, recordFailure, throttledFor } from './throttle'
+import { tooManyRequests, waitInWords } from './rateLimit'
+import { clientAddress } from './request'
+import { clearSigningFailures, recordSigningFailure, signingPasswordWait } from './throttle'
 import { storeUploadBytes, uploadFilePath } from './uploads'
 import { notifyCertificateIssued } from './eventMail'
 import { publicBaseUrl } from './publicUrl'
@@ -96,20 +100,17 @@ export async function updateLabSettingsIn(t: Transaction, actor: SessionUser, in
  * The signatory proves it is them by entering their password again. Wrong → 400 naming `password`
  * (the session stays valid); repeated failures → 429, counted per signatory like sign-in's.
  */
-export async function verifySigningPassword(actor: SessionUser, password: string, address: string): Promise<User> {
-  const key = `sign:${actor.id}`
-  const where = `sign:${address}`
-  const wait = throttledFor(key, where)
-  if (wait > 0) {
-    throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: `Too many wrong passwords. Try again in ${Math.ceil(wait / 60)} min.`, data: { fields: { password: 'Too many wrong passwords' }, retryAfter: wait } })
-  }
+export async function verifySigningPassword(event: H3Event, actor: SessionUser, password: string): Promise<User> {
+  const address = clientAddress(event)
+  const wait = await signingPasswordWait(actor.id, address)
+  if (wait > 0) tooManyRequests(event, wait, `Too many wrong passwords. Try again in ${waitInWords(wait)}.`, { password: 'Too many wrong passwords' })
   const user = await User.findByPk(actor.id)
   const ok = !!user && await verifyPassword(user.passwordHash, password)
   if (!user || !ok) {
-    recordFailure(key, where)
+    await recordSigningFailure(actor.id, address)
     invalidInput({ password: 'The password is not correct: enter your own password to sign' })
   }
-  clearFailures(key)
+  await clearSigningFailures(actor.id, address)
   return user
 }
 
@@ -259,20 +260,6 @@ export async function nextSequenceIn(t: Transaction, year: number): Promise<numb
 
 // ---------------------------------------------------------------- issue, amend, withdraw
 
-let queue: Promise<unknown> = Promise.resolve()
-
-/**
- * Run signing transactions of this server one after another. Correctness does not depend on it
- * (BEGIN IMMEDIATE and the counter triggers do that, across processes too), but node-sqlite3 waits
- * for a busy database on libuv's small thread pool: many issues waiting at once could occupy every
- * thread while the transaction holding the lock needs one to finish. Queued here, they never do.
- */
-export function oneAtATime<T>(fn: () => Promise<T>): Promise<T> {
-  const run = queue.then(fn, fn)
-  queue = run.catch(() => undefined)
-  return run
-}
-
 export interface Signer {
   user: User
   signatoryFunction: string
@@ -398,10 +385,6 @@ export async function withdrawCertificateIn(t: Transaction, user: User, id: numb
 
 // ---------------------------------------------------------------- reading
 
-function scopeWhere(user: SessionUser): WhereOptions {
-  return user.role === 'customer' ? { organizationId: user.organizationId ?? -1 } : {}
-}
-
 async function certificateDTOs(rows: Certificate[]): Promise<CertificateDTO[]> {
   const instIds = [...new Set(rows.map(r => r.instrumentId))]
   const orgIds = [...new Set(rows.map(r => r.organizationId))]
@@ -451,13 +434,13 @@ async function certificateDTOs(rows: Certificate[]): Promise<CertificateDTO[]> {
 
 /** GET /api/certificates: newest first; a customer sees only its organization's (every status, marked). */
 export async function listCertificates(user: SessionUser, q: CertificateQuery): Promise<Page<CertificateDTO>> {
-  const where: WhereOptions[] = [scopeWhere(user)]
-  if (q.status) where.push({ status: q.status })
-  if (q.runId) where.push({ runId: q.runId })
-  if (q.instrumentId) where.push({ instrumentId: q.instrumentId })
-  if (q.q) where.push({ [Op.or]: [prefixSearch('Certificate', ['number'], q.q), prefixSearch('Certificate', ['instrumentSerial'], q.q)] })
+  const filter = new ListFilter().add(organizationScope(user))
+  if (q.status) filter.add({ status: q.status })
+  if (q.runId) filter.add({ runId: q.runId })
+  if (q.instrumentId) filter.add({ instrumentId: q.instrumentId })
+  if (q.q) filter.text('Certificate', ['number', 'instrumentSerial'], q.q)
   const { rows, count } = await Certificate.findAndCountAll({
-    where: { [Op.and]: where },
+    ...filter.options(),
     attributes: { exclude: ['content'] },
     order: [['issuedAt', 'DESC'], ['id', 'DESC']],
     limit: q.pageSize,
@@ -468,7 +451,7 @@ export async function listCertificates(user: SessionUser, q: CertificateQuery): 
 
 /** A certificate in the user's scope, or 404 (another organization's looks like a missing one). */
 export async function scopedCertificate(user: SessionUser, id: number): Promise<Certificate> {
-  const cert = await Certificate.findOne({ where: { [Op.and]: [{ id }, scopeWhere(user)] }, attributes: { exclude: ['content'] } })
+  const cert = await Certificate.findOne({ where: { [Op.and]: [{ id }, organizationScope(user)] }, attributes: { exclude: ['content'] } })
   if (!cert) notFound('certificate')
   return cert
 }

@@ -6,18 +6,24 @@
  * `sqlite:/absolute/path.sqlite`, `sqlite:///absolute/path.sqlite`, or `sqlite::memory:`.
  *
  * Every connection runs with foreign keys on, WAL journal mode and a busy timeout, and
- * every transaction is `BEGIN IMMEDIATE`, so writers queue instead of failing.
+ * every transaction is `BEGIN IMMEDIATE`. On top of that, write transactions of one process go
+ * through one queue ({@link serializeWrites}): SQLite has a single writer, and node-sqlite3 waits
+ * for a busy database on one of libuv's four threads, so many writers waiting in SQLite at once
+ * could occupy every thread while the one holding the lock needs a thread to finish. Queued in
+ * JavaScript instead, they are served one after another and reads are never held up.
  * This file imports nothing from Nuxt or Nitro: scripts (migrate, demo, bench) use it too.
  */
+import { AsyncLocalStorage } from 'node:async_hooks'
 import fs from 'node:fs'
 import path from 'node:path'
 import sqlite3 from 'sqlite3'
 import { Sequelize, Transaction } from 'sequelize'
+import { config } from './config'
 
-export const DEFAULT_DATABASE_URL = 'sqlite:./data/bandlight.sqlite'
+
 
 /** Resolve a `DATABASE_URL` to a file path (or `:memory:`). Throws on anything but sqlite. */
-export function databasePath(url: string = process.env.DATABASE_URL || DEFAULT_DATABASE_URL): string {
+export function databasePath(url: string = config().databaseUrl): string {
   const m = /^sqlite:(.*)$/.exec(url.trim())
   if (!m) throw new Error(`DATABASE_URL must start with "sqlite:" (got "${url}")`)
   let p = m[1]!
@@ -52,7 +58,7 @@ function open(): Sequelize {
     dialect: 'sqlite',
     dialectModule,
     storage,
-    logging: process.env.DB_LOG === '1' ? console.log : false,
+    logging: config().databaseLog ? console.log : false,
     transactionType: Transaction.TYPES.IMMEDIATE,
     retry: { max: 3, match: [/SQLITE_BUSY/] },
     define: { underscored: false, freezeTableName: true },
@@ -61,6 +67,41 @@ function open(): Sequelize {
 
 /** The application's Sequelize instance (opened on first import). */
 export const sequelize: Sequelize = open()
+
+const insideWrite = new AsyncLocalStorage<true>()
+let writeTail: Promise<unknown> = Promise.resolve()
+let waitingWrites = 0
+
+/**
+ * Run a unit of writing work after every earlier one of this process has finished (FIFO). Work
+ * started from inside queued work runs at once (it is part of the same unit), so nesting never
+ * deadlocks.
+ * @param fn - the work; typically one transaction
+ * @returns what `fn` returns; its error is passed on and does not stop the queue
+ */
+export function serializeWrites<T>(fn: () => Promise<T>): Promise<T> {
+  if (insideWrite.getStore()) return fn()
+  waitingWrites++
+  const run = writeTail.then(() => {
+    waitingWrites--
+    return insideWrite.run(true, fn)
+  })
+  writeTail = run.catch(() => undefined)
+  return run
+}
+
+/** Writes waiting in the queue (for the health route and the benchmark). */
+export function queuedWrites(): number {
+  return waitingWrites
+}
+
+/**
+ * A write transaction through the queue (see {@link serializeWrites}). Use this (or
+ * `inTransaction`, which adds 4xx answers) instead of `sequelize.transaction`.
+ */
+export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
+  return serializeWrites(() => sequelize.transaction(fn))
+}
 
 /** Close the database (scripts and tests). */
 export async function closeDatabase(): Promise<void> {

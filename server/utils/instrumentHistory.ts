@@ -13,7 +13,9 @@ import { notFound, organizationScope } from './access'
 export async function instrumentHistory(user: SessionUser, instrumentId: number): Promise<InstrumentHistoryDTO> {
   const instrument = await Instrument.findOne({ where: { id: instrumentId, ...organizationScope(user) }, attributes: ['id'] })
   if (!instrument) notFound('instrument')
-  const certs = await Certificate.findAll({ where: { instrumentId, status: 'valid' }, order: [['calibrationDate', 'ASC'], ['id', 'ASC']], attributes: ['id', 'number', 'calibrationDate', 'runId'] })
+  // A customer sees only the certificates issued to its own organization: an instrument that changed
+  // hands keeps each owner's results their own.
+  const certs = await Certificate.findAll({ where: { instrumentId, status: 'valid', ...organizationScope(user) }, order: [['calibrationDate', 'ASC'], ['id', 'ASC']], attributes: ['id', 'number', 'calibrationDate', 'runId'] })
   const points = certs.length ? await RunPoint.findAll({ where: { runId: certs.map(c => c.runId) }, order: [['seq', 'ASC']] }) : []
   return {
     instrumentId,

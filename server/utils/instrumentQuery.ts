@@ -7,29 +7,27 @@
  * serial) for a customer's list. The page is a LIMIT/OFFSET query ordered by the sort column and
  * then id (a stable order); the total is a separate COUNT over the same WHERE.
  */
-import { Op, literal, type Order, type WhereOptions } from 'sequelize'
+import { Op, type Order } from 'sequelize'
 import type { InstrumentQuery } from '../../shared/schemas/registerQuery'
 import { Instrument } from '../models/Instrument'
-import { sequelize } from './db'
+import { ListFilter } from './search'
 
 export type InstrumentListOptions = Pick<InstrumentQuery, 'page' | 'pageSize' | 'sort' | 'dir'> & Partial<Pick<InstrumentQuery, 'q' | 'status' | 'kind' | 'organizationId' | 'dueBefore' | 'archived'>>
 
 /** Columns the prefix search `q` looks at (all indexed, NOCASE). */
 export const INSTRUMENT_SEARCH_COLUMNS = ['serial', 'assetTag', 'maker', 'model'] as const
 
-export function instrumentWhere(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): WhereOptions {
-  const and: WhereOptions[] = []
+/** The filter of an instrument list (where + bound parameters). */
+export function instrumentFilter(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): ListFilter {
+  const f = new ListFilter()
   const archived = o.archived ?? 'false'
-  if (archived !== 'all') and.push({ archived: archived === 'true' })
-  if (o.organizationId !== undefined) and.push({ organizationId: o.organizationId })
-  if (o.status) and.push({ status: o.status })
-  if (o.kind) and.push({ kind: o.kind })
-  if (o.dueBefore) and.push({ nextDueDate: { [Op.lt]: o.dueBefore } })
-  if (o.q) {
-    const pattern = sequelize.escape(o.q.replace(/[\\%_]/g, m => `\\${m}`) + '%')
-    and.push({ [Op.or]: INSTRUMENT_SEARCH_COLUMNS.map(c => literal(`\`Instrument\`.\`${c}\` LIKE ${pattern} ESCAPE '\\'`)) })
-  }
-  return { [Op.and]: and }
+  if (archived !== 'all') f.add({ archived: archived === 'true' })
+  if (o.organizationId !== undefined) f.add({ organizationId: o.organizationId })
+  if (o.status) f.add({ status: o.status })
+  if (o.kind) f.add({ kind: o.kind })
+  if (o.dueBefore) f.add({ nextDueDate: { [Op.lt]: o.dueBefore } })
+  if (o.q) f.text('Instrument', INSTRUMENT_SEARCH_COLUMNS, o.q)
+  return f
 }
 
 export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir']): Order {
@@ -43,10 +41,10 @@ export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: Instru
  * sort, which keeps deep pages cheap), then those rows are read by primary key.
  */
 export async function queryInstruments(o: InstrumentListOptions): Promise<{ rows: Instrument[], total: number }> {
-  const where = instrumentWhere(o)
+  const filter = instrumentFilter(o).options()
   const [total, page] = await Promise.all([
-    Instrument.count({ where }),
-    Instrument.findAll({ attributes: ['id'], where, order: instrumentOrder(o.sort, o.dir), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true }),
+    Instrument.count(filter),
+    Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true }),
   ])
   const ids = page.map(r => r.id)
   if (!ids.length) return { rows: [], total }

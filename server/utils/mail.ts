@@ -7,8 +7,7 @@
  */
 import nodemailer, { type Transporter } from 'nodemailer'
 
-export const DEFAULT_SMTP_URL = 'smtp://127.0.0.1:2525'
-export const DEFAULT_MAIL_FROM = 'Bandlight <calibration@bandlight.test>'
+import { config } from './config'
 
 export interface MailConfig {
   smtpUrl: string
@@ -17,8 +16,8 @@ export interface MailConfig {
 
 export function mailConfig(): MailConfig {
   return {
-    smtpUrl: process.env.SMTP_URL || DEFAULT_SMTP_URL,
-    from: process.env.MAIL_FROM || DEFAULT_MAIL_FROM,
+    smtpUrl: config().mail.smtpUrl,
+    from: config().mail.from,
   }
 }
 

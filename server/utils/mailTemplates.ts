@@ -6,6 +6,7 @@
  */
 import type { Transaction } from 'sequelize'
 import { LabSettings } from '../models/LabSettings'
+import { config } from './config'
 
 export interface LabIdentity {
   name: string
@@ -23,11 +24,11 @@ export async function labIdentity(transaction?: Transaction): Promise<LabIdentit
     const address = [...row.addressLines.split('\n'), [row.postcode, row.city].filter(Boolean).join(' '), row.country]
     return { name: row.name, address: address.map(l => l.trim()).filter(Boolean) }
   }
-  const address = (process.env.LAB_ADDRESS || 'Unit 2, Emberfield Science Park|Cinder Row|Emberfield EF3 9LB|United Kingdom')
+  const address = (config().lab.address || 'Unit 2, Emberfield Science Park|Cinder Row|Emberfield EF3 9LB|United Kingdom')
     .split(/\||\n/)
     .map(l => l.trim())
     .filter(Boolean)
-  return { name: process.env.LAB_NAME || 'Bandlight Radiation Thermometry Laboratory', address }
+  return { name: config().lab.name || 'Bandlight Radiation Thermometry Laboratory', address }
 }
 
 export interface RenderedMail {

@@ -5,10 +5,11 @@
  * expire: a link in a year-old reminder still works. No Nuxt or Nitro imports.
  */
 import crypto from 'node:crypto'
+import { config } from './config'
 import { publicBaseUrl } from './publicUrl'
 
 function tokenKey(): string {
-  const key = process.env.MAIL_TOKEN_SECRET || process.env.NUXT_SESSION_PASSWORD
+  const key = config().mail.tokenSecret || config().sessionPassword
   if (!key) throw new Error('Set MAIL_TOKEN_SECRET or NUXT_SESSION_PASSWORD to sign unsubscribe links')
   return key
 }

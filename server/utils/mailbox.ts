@@ -5,10 +5,12 @@
  */
 import fs from 'node:fs'
 import path from 'node:path'
+import { config } from './config'
 import type { ReceivedMessageDTO } from '../../shared/types/mail'
 
 export function mailboxDir(): string | null {
-  return process.env.BANDLIGHT_MAILBOX_DIR ? path.resolve(process.env.BANDLIGHT_MAILBOX_DIR) : null
+  const dir = config().mail.mailboxDir
+  return dir ? path.resolve(dir) : null
 }
 
 const FILE_RE = /^\d{10,16}-[0-9a-f]{8}\.json$/

@@ -11,6 +11,7 @@ import { evaluateBudget, type BudgetComponent } from '../../shared/uncertainty/b
 import { compileInputs, runMonteCarloChunk, splitTrials, summarizeMonteCarlo, validateGumResult, type MonteCarloInput } from '../../shared/uncertainty/montecarlo'
 import type { McDistributionInput, MonteCarloRequest } from '../../shared/schemas/calculation'
 import type { McWorkerData } from '../workers/readingMonteCarlo'
+import { config } from './config'
 import { engine } from './engine'
 
 const ORDER = ['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
@@ -118,7 +119,7 @@ function runInWorker(data: McWorkerData, onProgress: (done: number) => void): Pr
 
 /** Workers per run: one per core, at most 4 (MC_WORKERS overrides). */
 function workerCount(): number {
-  const n = Number(process.env.MC_WORKERS) || os.availableParallelism?.() || os.cpus().length
+  const n = config().monteCarloWorkers || os.availableParallelism?.() || os.cpus().length
   return Math.min(4, Math.max(1, n))
 }
 

@@ -7,7 +7,9 @@
  *   (claimedUntil IS NULL OR claimedUntil < now)`) and sends it only when that UPDATE changed one
  *   row, so two server instances (or two overlapping runs) never send the same row;
  * - a failure keeps the row queued with attempts + 1, the error, and the next attempt after a
- *   back-off of 1 min · 2^(attempts − 1) (1, 2, 4 … 64 min); after 8 attempts it is `failed`;
+ *   back-off of 1 min · 2^(attempts − 1), at most 4 h (1, 2, 4 … 128, 240, 240 … min); after 14
+ *   attempts — just over 24 h of trying — it is `failed`, and an administrator can queue it again
+ *   ({@link requeueMessage});
  * - a sender that dies mid-send leaves a claim that expires after CLAIM_MS, and the row is tried again.
  *
  * No Nuxt or Nitro imports: the Nitro plugin (server/plugins/mailSender.ts), the admin routes,
@@ -19,10 +21,12 @@ import { Op, type Transaction } from 'sequelize'
 import type { MailKind } from '../../shared/schemas/mail'
 import type { OutboxMessageDTO } from '../../shared/types/mail'
 import { OutboxMessage } from '../models/OutboxMessage'
+import { recordAudit } from './audit'
 import { deliverMail, mailDomain, type OutgoingMail } from './mail'
 
-export const MAX_ATTEMPTS = 8
+export const MAX_ATTEMPTS = 14
 export const BASE_BACKOFF_MS = 60_000
+export const MAX_BACKOFF_MS = 4 * 60 * 60_000
 /** How long a claim holds: longer than any one SMTP exchange (socket timeout 30 s). */
 export const CLAIM_MS = 120_000
 const BATCH = 50
@@ -79,7 +83,23 @@ export async function queueEventMail(t: Transaction, input: EventMailInput): Pro
 }
 
 export function backoffMs(attempts: number): number {
-  return BASE_BACKOFF_MS * 2 ** Math.max(0, attempts - 1)
+  return Math.min(MAX_BACKOFF_MS, BASE_BACKOFF_MS * 2 ** Math.max(0, attempts - 1))
+}
+
+/**
+ * Queue a message that failed for good again (an administrator's decision, e.g. after a long mail
+ * outage): attempts start again from zero. Audited in the caller's transaction; `requeued` is
+ * false (and nothing changes) unless the message had failed.
+ */
+export async function requeueMessage(t: Transaction, actorId: number, id: number): Promise<{ row: OutboxMessage, requeued: boolean } | null> {
+  const row = await OutboxMessage.findByPk(id, { transaction: t })
+  if (!row) return null
+  if (row.status !== 'failed') return { row, requeued: false }
+  const before = { status: row.status, attempts: row.attempts, lastError: row.lastError }
+  row.set({ status: 'queued', attempts: 0, nextAttemptAt: new Date(), claimedBy: null, claimedUntil: null })
+  await row.save({ transaction: t })
+  await recordAudit(t, { userId: actorId, action: 'requeue', entity: 'OutboxMessage', entityId: row.id, before, after: { status: row.status, attempts: row.attempts } })
+  return { row, requeued: true }
 }
 
 export interface SendResult {

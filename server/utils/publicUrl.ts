@@ -1,4 +1,6 @@
+import { config } from './config'
+
 /** The laboratory's public address (links in certificates and e-mail): PUBLIC_BASE_URL, no trailing slash. */
 export function publicBaseUrl(): string {
-  return (process.env.PUBLIC_BASE_URL || 'http://localhost:3000').replace(/\/+$/, '')
+  return config().publicBaseUrl
 }

@@ -1,9 +1,9 @@
 /**
  * Helpers the register routes share: 400 answers naming fields, re-checking a merged record
- * against its create schema, prefix search, the audit trail of one record, the latest
+ * against its create schema, the audit trail of one record, the latest
  * calibration of each piece of equipment.
  */
-import { Op, literal, type Transaction, type WhereOptions } from 'sequelize'
+import type { Transaction } from 'sequelize'
 import type { z } from 'zod'
 import { fieldErrors } from '../../shared/schemas/errors'
 import type { EquipmentType } from '../../shared/registers/constants'
@@ -11,7 +11,7 @@ import type { AuditEventDTO, FieldErrors } from '../../shared/types'
 import { AuditEvent } from '../models/AuditEvent'
 import { EquipmentCalibration } from '../models/EquipmentCalibration'
 import { User } from '../models/User'
-import { sequelize } from './db'
+import { quotedColumn } from './search'
 import { auditDTO } from './present'
 
 /** 400 "Validation Error" with `data.fields`, the same shape `parseWith` produces. */
@@ -34,16 +34,6 @@ export function checkMerged<S extends z.ZodType>(schema: S, merged: unknown): z.
 export function changes<T extends { version: number }>(input: T): Omit<T, 'version'> {
   const { version: _version, ...rest } = input
   return rest
-}
-
-/**
- * Case-insensitive prefix search over indexed NOCASE text columns: `col LIKE 'abc%' ESCAPE '\'`,
- * OR-ed. SQLite turns each term into an index range (the LIKE optimization), so it stays fast
- * on large tables. `%`, `_` and `\` in the query are matched literally.
- */
-export function prefixSearch(alias: string, columns: readonly string[], q: string): WhereOptions {
-  const pattern = sequelize.escape(q.replace(/[\\%_]/g, m => `\\${m}`) + '%')
-  return { [Op.or]: columns.map(c => literal(`\`${alias}\`.\`${c}\` LIKE ${pattern} ESCAPE '\\'`)) }
 }
 
 /** The audit rows of one record, oldest first, with the names of the people who made them. */
@@ -74,5 +64,8 @@ export async function calibrationsOf(type: EquipmentType, ids: readonly number[]
 
 /** SQL for the current due date of each row of an equipment table (its latest calibration's). */
 export function dueDateSql(type: EquipmentType, alias: string): string {
-  return `(SELECT c.dueDate FROM equipment_calibrations c WHERE c.equipmentType = '${type}' AND c.equipmentId = \`${alias}\`.\`id\` ORDER BY c.calibrationDate DESC, c.id DESC LIMIT 1)`
+  const c = (column: string) => quotedColumn('c', column)
+  const kind = type === 'source' ? "'source'" : "'reference'"
+  return '(SELECT ' + c('dueDate') + ' FROM equipment_calibrations c WHERE ' + c('equipmentType') + ' = ' + kind
+    + ' AND ' + c('equipmentId') + ' = ' + quotedColumn(alias, 'id') + ' ORDER BY ' + c('calibrationDate') + ' DESC, ' + c('id') + ' DESC LIMIT 1)'
 }

@@ -3,7 +3,7 @@
  * contacts. Used by server/api/customers and server/api/contacts.
  */
 import type { H3Event } from 'h3'
-import { Op, fn, col, type Order, type WhereOptions } from 'sequelize'
+import { fn, col, type Order } from 'sequelize'
 import { z } from 'zod'
 import type { CsvImportInput, CustomerQuery } from '../../shared/schemas/registerQuery'
 import { contactCreateSchema, customerCreateSchema, type CustomerCreateInput } from '../../shared/schemas/customer'
@@ -13,17 +13,15 @@ import { Organization } from '../models/Organization'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from './csv'
 import { customerDTO } from './presentRegisters'
 import { recordAudit, snapshot } from './audit'
+import { ListFilter } from './search'
 import { inTransaction } from './transaction'
 
-function customerWhere(q: Pick<CustomerQuery, 'q' | 'active'>): WhereOptions {
-  const and: WhereOptions[] = []
-  if (q.active !== 'all') and.push({ active: q.active === 'true' })
-  if (q.q) {
-    // Organizations number in the hundreds: a substring search is fine here.
-    const pattern = `%${q.q.replace(/[\\%_]/g, m => `\\${m}`)}%`
-    and.push({ [Op.or]: [{ name: { [Op.like]: pattern } }, { city: { [Op.like]: pattern } }] })
-  }
-  return { [Op.and]: and }
+function customerFilter(q: Pick<CustomerQuery, 'q' | 'active'>): ListFilter {
+  const f = new ListFilter()
+  if (q.active !== 'all') f.add({ active: q.active === 'true' })
+  // Organizations number in the hundreds: a substring search is fine here.
+  if (q.q) f.text('Organization', ['name', 'city'], q.q, 'contains')
+  return f
 }
 
 function customerOrder(q: Pick<CustomerQuery, 'sort' | 'dir'>): Order {
@@ -44,10 +42,10 @@ export async function contactCounts(ids: readonly number[]): Promise<Map<number,
 }
 
 export async function listCustomers(q: CustomerQuery): Promise<Page<CustomerDTO>> {
-  const where = customerWhere(q)
+  const filter = customerFilter(q).options()
   const [total, rows] = await Promise.all([
-    Organization.count({ where }),
-    Organization.findAll({ where, order: customerOrder(q), limit: q.pageSize, offset: (q.page - 1) * q.pageSize }),
+    Organization.count(filter),
+    Organization.findAll({ ...filter, order: customerOrder(q), limit: q.pageSize, offset: (q.page - 1) * q.pageSize }),
   ])
   const counts = await contactCounts(rows.map(r => r.id))
   return { rows: rows.map(o => customerDTO(o, counts.get(o.id) ?? 0)), total, page: q.page, pageSize: q.pageSize }
@@ -84,7 +82,7 @@ const customerRowSchema = customerCreateSchema
   })
 
 export async function exportCustomers(event: H3Event, q: CustomerQuery): Promise<string> {
-  const orgs = await Organization.findAll({ where: customerWhere(q), order: customerOrder(q), limit: 100_000 })
+  const orgs = await Organization.findAll({ ...customerFilter(q).options(), order: customerOrder(q), limit: 100_000 })
   const contacts = orgs.length ? await Contact.findAll({ where: { organizationId: orgs.map(o => o.id), active: true }, order: [['id', 'ASC']] }) : []
   const byOrg = new Map<number, Contact[]>()
   for (const c of contacts) byOrg.set(c.organizationId, [...(byOrg.get(c.organizationId) ?? []), c])

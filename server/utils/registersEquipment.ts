@@ -5,7 +5,7 @@
  * server/api/reference-instruments check the role and validate, then call these.
  */
 import type { H3Event } from 'h3'
-import { Op, literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
+import { literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
 import type { z } from 'zod'
 import type { EquipmentType } from '../../shared/registers/constants'
 import { todayISO } from '../../shared/registers/dates'
@@ -22,7 +22,8 @@ import { notFound } from './access'
 import { recordAudit, snapshot } from './audit'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from './csv'
 import { calibrationDTO, referenceInstrumentDTO, sourceDTO } from './presentRegisters'
-import { auditTrail, calibrationsOf, changes, checkMerged, dueDateSql, invalidInput, prefixSearch } from './registers'
+import { auditTrail, calibrationsOf, changes, checkMerged, dueDateSql, invalidInput } from './registers'
+import { ListFilter } from './search'
 import { assertVersion, inTransaction } from './transaction'
 
 type EquipmentRow = BlackbodySource | ReferenceInstrument
@@ -79,20 +80,20 @@ export const REFERENCE_REGISTER: EquipmentRegister<ReferenceInstrument, Referenc
 
 const SEARCH_COLUMNS = ['assetTag', 'serial', 'maker', 'model'] as const
 
-function listWhere<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, q: SourceQuery | ReferenceQuery): WhereOptions {
-  const and: WhereOptions[] = []
-  if (q.archived !== 'all') and.push({ archived: q.archived === 'true' })
-  if (q.status) and.push({ status: q.status })
-  if (q.kind) and.push({ kind: q.kind })
-  if (q.q) and.push(prefixSearch(reg.model.name, SEARCH_COLUMNS, q.q))
-  if (q.dueBefore) and.push(literal(`${dueDateSql(reg.type, reg.model.name)} < ${reg.model.sequelize!.escape(q.dueBefore)}`))
-  return { [Op.and]: and }
+function listFilter<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, q: SourceQuery | ReferenceQuery): ListFilter {
+  const f = new ListFilter()
+  if (q.archived !== 'all') f.add({ archived: q.archived === 'true' })
+  if (q.status) f.add({ status: q.status })
+  if (q.kind) f.add({ kind: q.kind })
+  if (q.q) f.text(reg.model.name, SEARCH_COLUMNS, q.q)
+  if (q.dueBefore) f.sql(dueDateSql(reg.type, reg.model.name) + ' < ' + f.param(q.dueBefore))
+  return f
 }
 
 function listOrder<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, sort: string, dir: 'asc' | 'desc'): Order {
   const d = dir === 'desc' ? 'DESC' : 'ASC'
   // Equipment without a calibration sorts last either way.
-  if (sort === 'dueDate') return [[literal(`${dueDateSql(reg.type, reg.model.name)} IS NULL`), 'ASC'], [literal(dueDateSql(reg.type, reg.model.name)), d], ['id', d]]
+  if (sort === 'dueDate') return [[literal(dueDateSql(reg.type, reg.model.name) + ' IS NULL'), 'ASC'], [literal(dueDateSql(reg.type, reg.model.name)), d], ['id', d]]
   return [[sort, d], ['id', d]]
 }
 
@@ -103,10 +104,10 @@ async function withLatest<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D
 }
 
 export async function listEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, q: SourceQuery | ReferenceQuery): Promise<Page<D>> {
-  const where = listWhere(reg, q)
+  const filter = listFilter(reg, q).options()
   const [total, rows] = await Promise.all([
-    reg.model.count({ where }),
-    reg.model.findAll({ where, order: listOrder(reg, q.sort, q.dir), limit: q.pageSize, offset: (q.page - 1) * q.pageSize }),
+    reg.model.count(filter),
+    reg.model.findAll({ ...filter, order: listOrder(reg, q.sort, q.dir), limit: q.pageSize, offset: (q.page - 1) * q.pageSize }),
   ])
   return { rows: await withLatest(reg, rows), total, page: q.page, pageSize: q.pageSize }
 }
@@ -189,7 +190,7 @@ export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRe
 }
 
 export async function exportEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, event: H3Event, q: SourceQuery | ReferenceQuery): Promise<string> {
-  const rows = await reg.model.findAll({ where: listWhere(reg, q), order: listOrder(reg, q.sort, q.dir), limit: 100_000 })
+  const rows = await reg.model.findAll({ ...listFilter(reg, q).options(), order: listOrder(reg, q.sort, q.dir), limit: 100_000 })
   const dtos = await withLatest(reg, rows)
   return sendCsv(event, reg.file, csvFromRows(reg.exportColumns, dtos as Record<string, unknown>[]))
 }

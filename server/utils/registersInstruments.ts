@@ -14,7 +14,7 @@ import { SpectralResponse } from '../models/SpectralResponse'
 import { Upload } from '../models/Upload'
 import { recordAudit, snapshot } from './audit'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from './csv'
-import { instrumentOrder, instrumentWhere } from './instrumentQuery'
+import { instrumentFilter, instrumentOrder } from './instrumentQuery'
 import { instrumentDTO } from './presentRegisters'
 import { invalidInput } from './registers'
 import { inTransaction } from './transaction'
@@ -65,7 +65,7 @@ const INSTRUMENT_COLUMNS: CsvColumns = {
 const INSTRUMENT_EXPORT = [...Object.keys(INSTRUMENT_COLUMNS), 'id', 'organizationName', 'spectralResponseName', 'pastDue', 'archived'] as const
 
 export async function exportInstruments(event: H3Event, q: Omit<InstrumentQuery, 'page' | 'pageSize'>): Promise<string> {
-  const rows = await Instrument.findAll({ where: instrumentWhere(q), order: instrumentOrder(q.sort, q.dir), limit: 200_000 })
+  const rows = await Instrument.findAll({ ...instrumentFilter(q).options(), order: instrumentOrder(q.sort, q.dir), limit: 200_000 })
   const dtos = await instrumentDTOs(rows)
   return sendCsv(event, 'instruments', csvFromRows(INSTRUMENT_EXPORT, dtos as unknown as Record<string, unknown>[]))
 }

@@ -36,7 +36,7 @@ import { Organization } from '../models/Organization'
 import type { ReminderItemType } from '../models/ReminderLog'
 import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
-import { sequelize } from './db'
+import { sequelize, writeTransaction } from './db'
 import { unsubscribeUrl, verifyUnsubscribeToken } from './mailTokens'
 import { equipmentAlertMail, labIdentity, reminderMail, type LabIdentity, type ReminderLine } from './mailTemplates'
 import { queueMail, sendQueued, type SendOptions } from './outbox'
@@ -286,7 +286,7 @@ export interface ScanResult {
 /** Write one group: its messages, then its log rows, in one transaction. False when another run got there first. */
 async function writeGroup(group: PlannedGroup, today: IsoDate): Promise<boolean> {
   try {
-    await sequelize.transaction(async (t) => {
+    await writeTransaction(async (t) => {
       let first: number | null = null
       for (const m of group.messages) {
         const row = await queueMail(t, m)
@@ -357,7 +357,7 @@ export async function runDailyReminders(opts: { now?: Date, force?: boolean, sen
 export async function unsubscribeByToken(token: string): Promise<{ contact: Contact, changed: boolean } | null> {
   const id = verifyUnsubscribeToken(token)
   if (id === null) return null
-  return sequelize.transaction(async (t) => {
+  return writeTransaction(async (t) => {
     const contact = await Contact.findByPk(id, { transaction: t })
     if (!contact) return null
     if (!contact.receivesReminders) return { contact, changed: false }

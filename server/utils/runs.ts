@@ -32,7 +32,8 @@ import { engine } from './engine'
 import { assertUsableOn } from './equipment'
 import { procedureVersionDTO } from './procedures'
 import { auditDTO } from './present'
-import { invalidInput, prefixSearch } from './registers'
+import { invalidInput } from './registers'
+import { ListFilter } from './search'
 import { instrumentBand, instrumentSummary, runDTO, runPointDTO, runRevisionDTO, type RunNames } from './runsPresent'
 import { assertVersion } from './transaction'
 
@@ -583,7 +584,7 @@ export async function listRuns(q: RunQuery): Promise<Page<RunDTO>> {
   if (q.instrumentId) where.push({ instrumentId: q.instrumentId })
   if (q.technicianId) where.push({ technicianId: q.technicianId })
   if (q.q) {
-    const ids = (await Instrument.findAll({ where: prefixSearch('Instrument', ['serial'], q.q), attributes: ['id'], limit: 5000 })).map(i => i.id)
+    const ids = (await Instrument.findAll({ ...new ListFilter().text('Instrument', ['serial'], q.q).options(), attributes: ['id'], limit: 5000 })).map(i => i.id)
     where.push({ instrumentId: { [Op.in]: ids } })
   }
   const { rows, count } = await CalibrationRun.findAndCountAll({

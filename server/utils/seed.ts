@@ -9,7 +9,7 @@ import type { Role } from '../../shared/roles'
 import { Organization } from '../models/Organization'
 import { User } from '../models/User'
 import { recordAudit, snapshot } from './audit'
-import { sequelize } from './db'
+import { writeTransaction } from './db'
 import { seedCertificates } from './seedCertificates'
 import { seedRegisters } from './seedRegisters'
 import { seedRequests } from './seedRequests'
@@ -43,7 +43,7 @@ async function ensureOrganization(t: Transaction, spec: (typeof DEMO_ORGANIZATIO
 export async function seedDemo(): Promise<string> {
   const demoHash = await hashPassword(DEMO_PASSWORD)
   let created = 0
-  await sequelize.transaction(async (t) => {
+  await writeTransaction(async (t) => {
     const orgs = new Map<string, Organization>()
     for (const spec of DEMO_ORGANIZATIONS) {
       const [org, isNew] = await ensureOrganization(t, spec)

@@ -1,15 +1,15 @@
 import type { Transaction } from 'sequelize'
 import { ForeignKeyConstraintError, OptimisticLockError, UniqueConstraintError, ValidationError } from 'sequelize'
-import { sequelize } from './db'
+import { writeTransaction } from './db'
 
 /**
- * Run a change in one transaction and turn the database's refusals into 4xx answers:
+ * Run a change in one transaction (through the process's write queue, server/utils/db.ts) and turn the database's refusals into 4xx answers:
  * a unique clash → 409 naming the field; a concurrent update → 409; a dangling
  * reference → 400 naming the field.
  */
 export async function inTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
   try {
-    return await sequelize.transaction(fn)
+    return await writeTransaction(fn)
   }
   catch (err) {
     if (err instanceof UniqueConstraintError) {

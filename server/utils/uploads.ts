@@ -13,18 +13,17 @@ import os from 'node:os'
 import path from 'node:path'
 import Papa from 'papaparse'
 import type { UploadType } from '../../shared/registers/constants'
+import { config } from './config'
 import { databasePath } from './db'
 
-export const DEFAULT_UPLOAD_MAX_BYTES = 10 * 1024 * 1024
-
 export function maxUploadBytes(): number {
-  const v = Number(process.env.UPLOAD_MAX_BYTES)
-  return Number.isFinite(v) && v > 0 ? Math.floor(v) : DEFAULT_UPLOAD_MAX_BYTES
+  return config().uploadMaxBytes
 }
 
 /** Where files are kept. */
 export function dataDir(): string {
-  if (process.env.BANDLIGHT_DATA_DIR) return path.resolve(process.env.BANDLIGHT_DATA_DIR)
+  const configured = config().dataDir
+  if (configured) return path.resolve(configured)
   const db = databasePath()
   if (db === ':memory:') return path.join(os.tmpdir(), 'bandlight-files')
   return path.join(path.dirname(db), 'files')
@@ -58,11 +57,14 @@ export function detectUploadType(data: Buffer): UploadType | null {
   return 'text/csv'
 }
 
-/** A display name: no path, no control characters, at most 200 characters. Never used as a path. */
+/**
+ * A display name: no path, no control characters, no bidirectional-text controls (which can make
+ * `invoice‮fdp.exe` show as `invoiceexe.pdf`), at most 200 characters. Never used as a path.
+ */
 export function sanitizeFileName(name: string | undefined): string {
   const base = (name ?? '').split(/[\\/]/).pop() ?? ''
   // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f"<>|:*?]/g, '').replace(/\s+/g, ' ').trim().slice(0, 200)
+  const clean = base.replace(/[\u0000-\u001f\u007f-\u009f"<>|:*?\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, '').replace(/\s+/g, ' ').trim().slice(0, 200)
   return clean || 'file'
 }
 

@@ -7,6 +7,11 @@ declare module '#auth-utils' {
   interface UserSession {
     loggedInAt: string
   }
+  /** Server-only part of the session (never sent to the browser's scripts). */
+  interface SecureSessionData {
+    /** Id of the `UserSession` record (server/utils/sessions.ts). */
+    sessionId: string
+  }
 }
 
 export {}

@@ -308,3 +308,27 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     expect((await tech.post('/api/certificates', { runId: otherRun, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(403)
   })
 })
+
+describe('an instrument that changes hands', () => {
+  it('keeps each organization’s certificates its own: the new owner’s history shows only what was issued to it', async () => {
+    const me = (await customer.get('/api/auth/me')).body as { organizationId: number }
+    const otherOrg = ((await tech.get(`/api/instruments/${otherInstrument}`)).body as { organizationId: number }).organizationId
+    const made = await tech.post('/api/instruments', {
+      organizationId: otherOrg, serial: unique('MOVED-'), maker: 'Ormsby Radiometrics', model: 'Spot 8', kind: 'spot-infrared',
+      bandLambda1Um: 8, bandLambda2Um: 14, distanceToSpot: 12, rangeMinK: 243.15, rangeMaxK: 773.15,
+      defaultEmissivity: 0.95, resolutionK: 0.1, accuracy: { kind: 'greaterOf', a: 1, b: 1 }, calibrationIntervalMonths: 12,
+    })
+    expect(made.status, JSON.stringify(made.body)).toBe(201)
+    const first = (await issue(await approvedRun(made.body.id))).body
+    const cur = (await tech.get(`/api/instruments/${made.body.id}`)).body as { version: number }
+    const moved = await tech.patch(`/api/instruments/${made.body.id}`, { organizationId: me.organizationId, version: cur.version })
+    expect(moved.status, JSON.stringify(moved.body)).toBe(200)
+    const second = (await issue(await approvedRun(made.body.id))).body
+    const history = await customer.get(`/api/instruments/${made.body.id}/history`)
+    expect(history.status).toBe(200)
+    expect(history.body.calibrations.map((c: { number: string }) => c.number)).toEqual([second.number])
+    expect((await customer.get(`/api/certificates/${first.id}`)).status).toBe(404)
+    const lab = await tech.get(`/api/instruments/${made.body.id}/history`)
+    expect(lab.body.calibrations.map((c: { number: string }) => c.number)).toEqual([first.number, second.number])
+  })
+})

@@ -21,6 +21,7 @@ const models = await import('../../server/models')
 const reminders = await import('../../server/utils/reminders')
 const outbox = await import('../../server/utils/outbox')
 const { closeMailTransport } = await import('../../server/utils/mail')
+const { resetConfig } = await import('../../server/utils/config')
 const { Organization, Contact, Instrument, User, OutboxMessage, ReminderLog, AuditEvent, BlackbodySource, EquipmentCalibration, MailSettings } = models
 
 // 06:30 in London (GMT in March) on 2027-03-01: the send hour (6) has come.
@@ -68,6 +69,7 @@ beforeAll(async () => {
   sink = await startMailSink({ port: 0, dir: mailbox, quiet: true })
   smtpPort = sink.port
   process.env.SMTP_URL = `smtp://127.0.0.1:${smtpPort}`
+  resetConfig()
   await migrate()
 
   const foundry = await Organization.create({ name: 'Ashgrove Castings', contactEmails: [] })
@@ -269,15 +271,15 @@ describe('the outbox', () => {
     expect(await outbox.sendQueued({ now: new Date(later.getTime() + 3_600_000) })).toEqual({ sent: 0, retried: 0, failed: 0 })
   })
 
-  it('gives up after 8 attempts with growing back-off', async () => {
+  it('keeps trying for more than 24 h with growing back-off (capped at 4 h), then gives up after 14 attempts', async () => {
     const row = await db.sequelize.transaction(t => outbox.queueMail(t, { kind: 'request-accepted', to: ['bounce@ashgrove.example'], subject: 'Never', text: 'x', html: null, dedupeKey: 'never-1' }))
     let now = new Date()
     const refuse = async () => { throw new Error('550 mailbox unavailable') }
     const delays: number[] = []
-    for (let i = 0; i < 8; i++) {
+    for (let i = 0; i < 14; i++) {
       const r = await outbox.sendQueued({ now, deliver: refuse })
       const fresh = (await OutboxMessage.findByPk(row.id))!
-      if (i < 7) {
+      if (i < 13) {
         expect(r.retried).toBe(1)
         delays.push(fresh.nextAttemptAt!.getTime() - now.getTime())
         now = fresh.nextAttemptAt!
@@ -285,11 +287,29 @@ describe('the outbox', () => {
       else {
         expect(r.failed).toBe(1)
         expect(fresh.status).toBe('failed')
-        expect(fresh.attempts).toBe(8)
+        expect(fresh.attempts).toBe(14)
         expect(fresh.lastError).toBe('550 mailbox unavailable')
       }
     }
-    expect(delays).toEqual([1, 2, 4, 8, 16, 32, 64].map(m => m * 60_000))
+    expect(delays).toEqual([1, 2, 4, 8, 16, 32, 64, 128, 240, 240, 240, 240, 240].map(m => m * 60_000))
+    // The first attempt to the last: 1455 min = 24 h 15 min of trying before giving up.
+    expect(delays.reduce((a, b) => a + b, 0)).toBeGreaterThanOrEqual(24 * 3_600_000)
+  })
+
+  it('lets an administrator queue a failed message again, audited, and only a failed one', async () => {
+    const row = await db.sequelize.transaction(t => outbox.queueMail(t, { kind: 'request-accepted', to: ['hollis@ashgrove.example'], subject: 'After the outage', text: 'x', html: null, dedupeKey: 'requeue-1' }))
+    await row.update({ status: 'failed', attempts: 14, nextAttemptAt: null, lastError: 'connect ECONNREFUSED' })
+    const admin = await User.create({ email: 'requeue-admin@bandlight.test', name: 'Requeue Admin', role: 'admin', passwordHash: 'x' })
+    const done = await db.sequelize.transaction(t => outbox.requeueMessage(t, admin.id, row.id))
+    expect(done?.requeued).toBe(true)
+    const fresh = (await OutboxMessage.findByPk(row.id))!
+    expect(fresh.status).toBe('queued')
+    expect(fresh.attempts).toBe(0)
+    expect(await AuditEvent.count({ where: { entity: 'OutboxMessage', entityId: row.id, action: 'requeue', userId: admin.id } })).toBe(1)
+    const again = await db.sequelize.transaction(t => outbox.requeueMessage(t, admin.id, row.id))
+    expect(again?.requeued).toBe(false)
+    expect(await AuditEvent.count({ where: { entity: 'OutboxMessage', entityId: row.id, action: 'requeue' } })).toBe(1)
+    await fresh.update({ status: 'sent', sentAt: new Date() })
   })
 
   it('queues an event message once per dedupe key', async () => {

@@ -19,13 +19,22 @@ export async function openBrowser(): Promise<{ context: BrowserContext, page: Pa
     viewport: { width: 1360, height: 860 },
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   })
+  // Every page of every browser test is also a check of the Content-Security-Policy: anything the
+  // policy blocks (an inline script without the nonce, eval, a foreign host) fails the test on close.
+  const violations: string[] = []
+  const watch = (p: Page) => p.on('console', (msg) => {
+    if (msg.type() === 'error' && /Content Security Policy/i.test(msg.text())) violations.push(msg.text())
+  })
+  context.on('page', watch)
   const page = context.pages()[0] ?? (await context.newPage())
+  watch(page)
   return {
     context,
     page,
     close: async () => {
       await context.close()
       fs.rmSync(dir, { recursive: true, force: true })
+      if (violations.length) throw new Error(`The page broke its Content-Security-Policy:\n${violations.join('\n')}`)
     },
   }
 }

@@ -55,14 +55,29 @@ export class Client {
   post<T = any>(path: string, body?: unknown) { return this.request<T>('POST', path, body ?? {}) } // eslint-disable-line @typescript-eslint/no-explicit-any
   patch<T = any>(path: string, body?: unknown) { return this.request<T>('PATCH', path, body ?? {}) } // eslint-disable-line @typescript-eslint/no-explicit-any
 
+  /** The cookies this client holds, as a Cookie header (to replay an old session in a test). */
+  cookieHeader(): string {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  }
+
+  /** A client that sends exactly this Cookie header and keeps whatever the server sets after. */
+  static withCookies(header: string, extraHeaders: Record<string, string> = {}): Client {
+    const c = new Client(extraHeaders)
+    for (const pair of header.split(/;\s*/).filter(Boolean)) {
+      const i = pair.indexOf('=')
+      c.cookies.set(pair.slice(0, i), pair.slice(i + 1))
+    }
+    return c
+  }
+
   async login(email: string, password = DEMO_PASSWORD): Promise<Reply> {
     return this.request('POST', '/api/auth/login', { email, password })
   }
 }
 
-/** A client signed in as the demo account of a role (throws if sign-in fails). */
-export async function signedIn(role: Role): Promise<Client> {
-  const c = new Client()
+/** A client signed in as the demo account of a role (throws if sign-in fails); `headers` go with every request. */
+export async function signedIn(role: Role, headers: Record<string, string> = {}): Promise<Client> {
+  const c = new Client(headers)
   const r = await c.login(DEMO_ACCOUNTS[role])
   if (r.status !== 200) throw new Error(`demo sign-in as ${role} failed: ${r.status} ${JSON.stringify(r.body)}`)
   return c

@@ -1,9 +1,11 @@
 import { loginSchema } from '../../../shared/schemas/auth'
 import { User } from '../../models/User'
-import { toSessionUser } from '../../utils/access'
 import { recordAudit } from '../../utils/audit'
+import { tooManyRequests, waitInWords } from '../../utils/rateLimit'
+import { clientAddress, clientUserAgent } from '../../utils/request'
+import { startSession } from '../../utils/sessions'
+import { clearSignInFailures, recordSignInFailure, signInGate } from '../../utils/throttle'
 import { inTransaction } from '../../utils/transaction'
-import { clearFailures, recordFailure, throttledFor } from '../../utils/throttle'
 import { parseWith } from '../../utils/validation'
 
 const WRONG = 'E-mail or password is not correct'
@@ -11,27 +13,37 @@ const WRONG = 'E-mail or password is not correct'
 // A fixed hash to compare against when the e-mail is unknown, so both paths take the same time.
 let decoyHash: string | undefined
 
+/**
+ * Sign in with e-mail and password. Throttled without locking others out (server/utils/throttle.ts);
+ * every failure is audited with the address and user agent.
+ */
 export default defineEventHandler(async (event) => {
   const { email, password } = await readValidatedBody(event, parseWith(loginSchema))
-  const address = getRequestIP(event, { xForwardedFor: process.env.TRUST_PROXY === '1' }) ?? 'unknown'
+  const address = clientAddress(event)
 
-  const wait = throttledFor(email, address)
-  if (wait > 0) {
-    setResponseHeader(event, 'Retry-After', wait)
-    throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: `Too many failed sign-ins. Try again in ${Math.ceil(wait / 60)} min.` })
-  }
+  const gate = await signInGate(email, address)
+  if (gate.wait > 0) tooManyRequests(event, gate.wait, `Too many failed sign-ins. Try again in ${waitInWords(gate.wait)}.`)
+  if (gate.delayMs > 0) await new Promise(r => setTimeout(r, gate.delayMs))
 
   const user = await User.findOne({ where: { email } })
   decoyHash ??= await hashPassword('decoy-password-for-timing')
   const ok = await verifyPassword(user?.passwordHash ?? decoyHash, password)
   if (!user || !ok || !user.active) {
-    recordFailure(email, address)
+    await recordSignInFailure(email, address, !!user)
+    const reason = !user ? 'unknown-account' : !ok ? 'wrong-password' : 'inactive-account'
+    await inTransaction(t => recordAudit(t, {
+      userId: user?.id ?? null,
+      action: 'sign-in-failed',
+      entity: 'User',
+      entityId: user?.id ?? null,
+      after: { email, reason, address, userAgent: clientUserAgent(event) },
+    }))
+    if (gate.addressOverCeiling) tooManyRequests(event, 60, 'Too many failed sign-ins from this address. Try again in 1 min.')
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: WRONG })
   }
 
-  clearFailures(email)
-  const sessionUser = toSessionUser(user)
-  await setUserSession(event, { user: sessionUser, loggedInAt: new Date().toISOString() })
-  await inTransaction(t => recordAudit(t, { userId: user.id, action: 'sign-in', entity: 'User', entityId: user.id }))
+  await clearSignInFailures(email, address)
+  const sessionUser = await startSession(event, user)
+  await inTransaction(t => recordAudit(t, { userId: user.id, action: 'sign-in', entity: 'User', entityId: user.id, after: { address, userAgent: clientUserAgent(event) } }))
   return sessionUser
 })

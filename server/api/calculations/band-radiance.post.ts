@@ -9,5 +9,5 @@ import { parseWith } from '../../utils/validation'
 export default defineEventHandler(async (event) => {
   await requireRole(event, ...LAB_ROLES)
   const { band, temperatureK } = await readValidatedBody(event, parseWith(bandRadianceSchema))
-  return { radiance: engine(() => bandRadiance(band, temperatureK)) }
+  return { radiance: engine(() => bandRadiance(band, temperatureK), 'temperatureK') }
 })

@@ -9,5 +9,5 @@ import { parseWith } from '../../utils/validation'
 export default defineEventHandler(async (event) => {
   await requireRole(event, ...LAB_ROLES)
   const input = await readValidatedBody(event, parseWith(conformitySchema))
-  return engine(() => evaluateConformity(input))
+  return engine(() => evaluateConformity(input), 'error')
 })

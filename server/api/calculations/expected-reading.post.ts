@@ -12,6 +12,6 @@ import { parseWith } from '../../utils/validation'
 export default defineEventHandler(async (event) => {
   await requireRole(event, ...LAB_ROLES)
   const input = await readValidatedBody(event, parseWith(expectedReadingSchema))
-  const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities(input))
+  const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities(input), 'sourceTemperatureK')
   return { expectedReadingK, sensitivities }
 })

@@ -9,5 +9,5 @@ import { parseWith } from '../../utils/validation'
 export default defineEventHandler(async (event) => {
   await requireRole(event, ...LAB_ROLES)
   const { band, radiance } = await readValidatedBody(event, parseWith(temperatureSchema))
-  return { temperatureK: engine(() => temperatureFromRadiance(band, radiance)) }
+  return { temperatureK: engine(() => temperatureFromRadiance(band, radiance), 'radiance') }
 })

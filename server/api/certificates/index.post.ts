@@ -1,7 +1,7 @@
 import { certificateIssueSchema } from '../../../shared/schemas/certificate'
 import type { CertificateDetailDTO } from '../../../shared/types'
 import { requireRole } from '../../utils/access'
-import { certificateDetail, issueCertificateIn, oneAtATime, verifySigningPassword } from '../../utils/certificates'
+import { certificateDetail, issueCertificateIn, verifySigningPassword } from '../../utils/certificates'
 import { inTransaction } from '../../utils/transaction'
 import { parseWith } from '../../utils/validation'
 
@@ -13,9 +13,8 @@ import { parseWith } from '../../utils/validation'
 export default defineEventHandler(async (event): Promise<CertificateDetailDTO> => {
   const user = await requireRole(event, 'quality')
   const input = await readValidatedBody(event, parseWith(certificateIssueSchema))
-  const address = getRequestIP(event, { xForwardedFor: process.env.TRUST_PROXY === '1' }) ?? 'unknown'
-  const signer = await verifySigningPassword(user, input.password, address)
-  const cert = await oneAtATime(() => inTransaction(t => issueCertificateIn(t, { user: signer, signatoryFunction: input.signatoryFunction }, input.runId)))
+  const signer = await verifySigningPassword(event, user, input.password)
+  const cert = await inTransaction(t => issueCertificateIn(t, { user: signer, signatoryFunction: input.signatoryFunction }, input.runId))
   setResponseStatus(event, 201)
   return await certificateDetail(user, cert.id)
 })

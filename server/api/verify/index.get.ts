@@ -1,7 +1,9 @@
 import { verifyQuerySchema } from '../../../shared/schemas/certificate'
 import type { CertificateVerificationDTO } from '../../../shared/types'
 import { notVerified, verifyCertificate } from '../../utils/certificates'
-import { verifyFailed, verifyThrottle } from '../../utils/certificateThrottle'
+import { tooManyRequests, waitInWords } from '../../utils/rateLimit'
+import { clientAddress } from '../../utils/request'
+import { verifyFailed, verifyThrottle } from '../../utils/throttle'
 import { parseWith } from '../../utils/validation'
 
 /**
@@ -10,16 +12,13 @@ import { parseWith } from '../../utils/validation'
  * answer the same 404. Throttled by client address.
  */
 export default defineEventHandler(async (event): Promise<CertificateVerificationDTO> => {
-  const address = getRequestIP(event, { xForwardedFor: process.env.TRUST_PROXY === '1' }) ?? 'unknown'
-  const wait = verifyThrottle(address)
-  if (wait > 0) {
-    setResponseHeader(event, 'Retry-After', wait)
-    throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: `Too many verification requests. Try again in ${Math.ceil(wait / 60)} min.` })
-  }
+  const address = clientAddress(event)
+  const wait = await verifyThrottle(address)
+  if (wait > 0) tooManyRequests(event, wait, `Too many verification requests. Try again in ${waitInWords(wait)}.`)
   const { number, code } = await getValidatedQuery(event, parseWith(verifyQuerySchema))
   const found = await verifyCertificate(number, code)
   if (!found) {
-    verifyFailed(address)
+    await verifyFailed(address)
     notVerified()
   }
   setResponseHeader(event, 'cache-control', 'no-store')

@@ -1,3 +1,4 @@
+import { pruneHits } from '../../utils/rateLimit'
 import { runDailyReminders } from '../../utils/reminders'
 
 /**
@@ -11,6 +12,7 @@ export default defineTask({
     description: 'Queue due recalibration reminders and equipment alerts, then send the outbox',
   },
   async run() {
+    await pruneHits()
     const result = await runDailyReminders()
     if (result.ran && result.run && (result.run.queued || result.run.skipped)) {
       console.log(`[bandlight] reminders ${result.run.today}: ${result.run.queued} queued, ${result.run.logged} milestones, ${result.run.skipped} skipped`)

@@ -7,7 +7,6 @@ import { ROLES } from '../../../shared/roles'
 import { fieldErrors, fieldName } from '../../../shared/schemas/errors'
 import { userCreateSchema } from '../../../shared/schemas/user'
 import { databasePath } from '../../../server/utils/db'
-import { clearFailures, recordFailure, throttledFor } from '../../../server/utils/throttle'
 
 describe('field names in error answers', () => {
   it('joins paths the way the API documents them', () => {
@@ -39,21 +38,6 @@ describe('DATABASE_URL', () => {
   it('refuses anything but sqlite', () => {
     expect(() => databasePath('postgres://x')).toThrow(/sqlite/)
     expect(() => databasePath('sqlite:')).toThrow()
-  })
-})
-
-describe('sign-in throttle', () => {
-  it('blocks an e-mail after 5 failures within the window and frees it after', () => {
-    const t0 = 1_000_000_000
-    const email = 'unit@bandlight.test'
-    for (let i = 0; i < 4; i++) recordFailure(email, `10.0.0.${i}`, t0 + i)
-    expect(throttledFor(email, '10.9.9.9', t0 + 10)).toBe(0)
-    recordFailure(email, '10.0.0.9', t0 + 20)
-    const wait = throttledFor(email, '10.9.9.9', t0 + 30)
-    expect(wait).toBeGreaterThan(14 * 60)
-    expect(wait).toBeLessThanOrEqual(15 * 60)
-    expect(throttledFor(email, '10.9.9.9', t0 + 15 * 60_000 + 1)).toBe(0)
-    clearFailures(email)
   })
 })
 

@@ -4,6 +4,7 @@ import { Organization } from '../../../models/Organization'
 import { User } from '../../../models/User'
 import { notFound, requireRole } from '../../../utils/access'
 import { recordAudit, snapshot } from '../../../utils/audit'
+import { revokeUserSessions } from '../../../utils/sessions'
 import { assertActiveOrganization } from '../../../utils/organizations'
 import { userDTO } from '../../../utils/present'
 import { assertVersion, inTransaction } from '../../../utils/transaction'
@@ -30,7 +31,9 @@ export default defineEventHandler(async (event) => {
     const before = snapshot(user)
     user.set({ name: input.name ?? user.name, role, organizationId: role === 'customer' ? organizationId : null })
     await user.save({ transaction: t })
-    await recordAudit(t, { userId: admin.id, action: 'update', entity: 'User', entityId: user.id, before, after: snapshot(user) })
+    // A new role or organization changes what the user may see: their open sessions end.
+    const ended = before.role !== user.role || before.organizationId !== user.organizationId ? await revokeUserSessions(t, user.id, 'access-changed') : 0
+    await recordAudit(t, { userId: admin.id, action: 'update', entity: 'User', entityId: user.id, before, after: { ...snapshot(user), ...(ended ? { sessionsEnded: ended } : {}) } })
   })
   const user = await User.findByPk(id, { include: [{ model: Organization, as: 'organization' }] })
   return userDTO(user!)

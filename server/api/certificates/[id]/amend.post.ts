@@ -2,7 +2,7 @@ import { idParamSchema } from '../../../../shared/schemas/common'
 import { certificateAmendSchema } from '../../../../shared/schemas/certificate'
 import type { CertificateDetailDTO } from '../../../../shared/types'
 import { requireRole } from '../../../utils/access'
-import { amendCertificateIn, certificateDetail, oneAtATime, verifySigningPassword } from '../../../utils/certificates'
+import { amendCertificateIn, certificateDetail, verifySigningPassword } from '../../../utils/certificates'
 import { inTransaction } from '../../../utils/transaction'
 import { parseWith } from '../../../utils/validation'
 
@@ -11,9 +11,8 @@ export default defineEventHandler(async (event): Promise<CertificateDetailDTO> =
   const user = await requireRole(event, 'quality')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
   const input = await readValidatedBody(event, parseWith(certificateAmendSchema))
-  const address = getRequestIP(event, { xForwardedFor: process.env.TRUST_PROXY === '1' }) ?? 'unknown'
-  const signer = await verifySigningPassword(user, input.password, address)
-  const cert = await oneAtATime(() => inTransaction(t => amendCertificateIn(t, { user: signer, signatoryFunction: input.signatoryFunction }, id, input.reason)))
+  const signer = await verifySigningPassword(event, user, input.password)
+  const cert = await inTransaction(t => amendCertificateIn(t, { user: signer, signatoryFunction: input.signatoryFunction }, id, input.reason))
   setResponseStatus(event, 201)
   return await certificateDetail(user, cert.id)
 })

@@ -4,11 +4,12 @@ import { Organization } from '../../../../models/Organization'
 import { User } from '../../../../models/User'
 import { notFound, requireRole } from '../../../../utils/access'
 import { recordAudit, snapshot } from '../../../../utils/audit'
+import { revokeUserSessions } from '../../../../utils/sessions'
 import { userDTO } from '../../../../utils/present'
 import { inTransaction } from '../../../../utils/transaction'
 import { parseWith } from '../../../../utils/validation'
 
-/** Deactivate (or reactivate) a user. Users are never deleted. */
+/** Deactivate (or reactivate) a user; deactivation ends every session of theirs. Users are never deleted. */
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, 'admin')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
@@ -23,7 +24,8 @@ export default defineEventHandler(async (event) => {
     const before = snapshot(user)
     user.active = active
     await user.save({ transaction: t })
-    await recordAudit(t, { userId: admin.id, action: active ? 'reactivate' : 'deactivate', entity: 'User', entityId: user.id, before, after: snapshot(user) })
+    const ended = active ? 0 : await revokeUserSessions(t, user.id, 'deactivated')
+    await recordAudit(t, { userId: admin.id, action: active ? 'reactivate' : 'deactivate', entity: 'User', entityId: user.id, before, after: { ...snapshot(user), ...(active ? {} : { sessionsEnded: ended }) } })
   })
   const user = await User.findByPk(id, { include: [{ model: Organization, as: 'organization' }] })
   return userDTO(user!)

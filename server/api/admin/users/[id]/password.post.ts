@@ -3,10 +3,11 @@ import { passwordResetSchema } from '../../../../../shared/schemas/user'
 import { User } from '../../../../models/User'
 import { notFound, requireRole } from '../../../../utils/access'
 import { recordAudit } from '../../../../utils/audit'
+import { revokeUserSessions } from '../../../../utils/sessions'
 import { inTransaction } from '../../../../utils/transaction'
 import { parseWith } from '../../../../utils/validation'
 
-/** Set a new password for a user (the admin hands it over; the hash is never audited). */
+/** Set a new password for a user (the admin hands it over; the hash is never audited); every session of theirs ends. */
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, 'admin')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
@@ -17,7 +18,8 @@ export default defineEventHandler(async (event) => {
     if (!user) notFound('user')
     user.passwordHash = passwordHash
     await user.save({ transaction: t })
-    await recordAudit(t, { userId: admin.id, action: 'reset-password', entity: 'User', entityId: user.id })
+    const ended = await revokeUserSessions(t, user.id, 'password-reset')
+    await recordAudit(t, { userId: admin.id, action: 'reset-password', entity: 'User', entityId: user.id, after: { sessionsEnded: ended } })
   })
   return { ok: true }
 })

@@ -1,10 +1,10 @@
 import type { WhereOptions } from 'sequelize'
-import { outboxQuerySchema } from '../../../../shared/schemas/mail'
-import type { OutboxMessageDTO, Page } from '../../../../shared/types'
-import { OutboxMessage } from '../../../models/OutboxMessage'
-import { requireRole } from '../../../utils/access'
-import { outboxDTO } from '../../../utils/outbox'
-import { parseWith } from '../../../utils/validation'
+import { outboxQuerySchema } from '../../../../../shared/schemas/mail'
+import type { OutboxMessageDTO, Page } from '../../../../../shared/types'
+import { OutboxMessage } from '../../../../models/OutboxMessage'
+import { requireRole } from '../../../../utils/access'
+import { outboxDTO } from '../../../../utils/outbox'
+import { parseWith } from '../../../../utils/validation'
 
 /** The outbox, newest first, paged; filter by status or kind. */
 export default defineEventHandler(async (event): Promise<Page<OutboxMessageDTO>> => {
