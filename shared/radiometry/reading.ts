@@ -67,8 +67,6 @@ export interface ReadingSensitivities {
   instrumentTemperature: number
   /** ∂T_meas/∂ε_i, K per unit emissivity. */
   emissivitySetting: number
-  /** The radiation constants used (id and c2 in m·K). */
-  constants: ConstantsUsed
 }
 
 const OUT = new Float64Array(2)
@@ -193,7 +191,8 @@ export function expectedReadingK(input: ReadingInput): number {
  * reading model with the closed-form dS/dT (see the module notes for the formulas).
  * @param input - see {@link ReadingInput}
  * @returns expectedReadingK (K); sourceTemperature, reflectedTemperature, instrumentTemperature (K/K);
- *   sourceEmissivity, emissivitySetting (K per unit emissivity); the constants used (`constants`)
+ *   sourceEmissivity, emissivitySetting (K per unit emissivity); the constants used are those of
+ *   {@link expectedReading} for the same input (`constants`)
  * @throws EngineInputError as {@link expectedReading}
  * @example 8–14 µm, plate ε_s = 0.95 at 373.15 K, T_w = T_d = 296.15 K, ε_i = 0.95:
  *   sourceEmissivity ≈ 64 K per unit emissivity (≈ 0.64 K per 0.01)
@@ -223,7 +222,6 @@ export function readingSensitivities(input: ReadingInput): ReadingSensitivities 
     reflectedTemperature: ((1 - es) * dsw) / D,
     instrumentTemperature: (-(1 - ei) * dsd) / D,
     emissivitySetting: -(sm - sd) / D,
-    constants: constantsUsed(c),
   }
 }
 
