@@ -78,7 +78,7 @@ export function erfc(x: number): number {
  * Standard normal distribution function Φ(z) = ½·erfc(−z/√2), accurate in relative terms in the lower tail.
  * @param z - standard normal variate (dimensionless)
  * @returns Φ(z) in [0, 1]
- * @example normalCdf(-1.96) ≈ 0.0249979; normalCdf(-10) ≈ 7.619853024160527e-24
+ * @example normalCdf(-1.96) ≈ 0.0249979; normalCdf(-10) ≈ 7.619853024160526e-24
  */
 export function normalCdf(z: number): number {
   return normalSf(-z)
