@@ -19,18 +19,20 @@
  *    GUM 4.3.7, 4.3.9) with its sensitivity from step 2 (c = 1 on the reading); the repeatability of
  *    the mean s/√n (Type A, ν = n − 1, GUM 4.2.3) when n ≥ 2; the display resolution δ/√12 (GUM F.2.2.1).
  *    u_c, ν_eff (Welch–Satterthwaite, GUM G.4.1), k = t_{95.45 %}(ν_eff) and U = k·u_c by
- *    shared/uncertainty/budget.ts.
+ *    shared/uncertainty/budget.ts; correlated template components (`correlations`, pairs of template
+ *    indices with r) enter u_c by GUM 5.2.2 eq. (16) (see budget.ts for ν_eff and the shares).
  * 5. The uncertainty stated is never below the laboratory's CMC at T_s: U_stated = max(U, CMC).
  * 6. Rounding to two significant digits, the error to the same decimal place (GUM 7.2.6).
  * 7. Conformity with the instrument's accuracy specification at the mean reading under the decision
- *    rule (ILAC-G8:09/2019), with U_stated.
+ *    rule (ILAC-G8:09/2019), with U_stated, and the probability of conformity for a normal PDF with
+ *    u = U_stated/k (JCGM 106:2012, 7.4): k of the budget, or 2 when the CMC (stated at k = 2) is stated.
  */
 import { ENGINE_VERSION } from '../engine'
 import { EngineInputError } from '../radiometry/errors'
 import { prepareBand, type Band } from '../radiometry/planck'
 import { readingSensitivities, type ReadingSensitivities } from '../radiometry/reading'
 import { correctionAt, CorrectionRangeError } from '../registers/correction'
-import { evaluateBudget, roundResult } from '../uncertainty/budget'
+import { evaluateBudget, roundResult, validateCorrelations, type BudgetCorrelation } from '../uncertainty/budget'
 import { evaluateConformity } from '../uncertainty/conformity'
 import type { BudgetLine, CmcEntry, PointComputationInput, PointResult, TemplateComponent } from '../types/runs'
 import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
@@ -127,6 +129,21 @@ function sensitivityFor(input: ModelInput, s: ReadingSensitivities): number {
   return input === 'reading' ? 1 : s[input]
 }
 
+/** Coverage factor of a CMC entry's expanded uncertainty (CmcEntry: k = 2). */
+const CMC_COVERAGE_FACTOR = 2
+
+/**
+ * Validates the point's correlations against its template (field names `correlations[n].…`).
+ * @param correlations - pairs of template indices with r, or undefined
+ * @param templateLength - number of template components
+ * @returns pairs for evaluateBudget (template indices are budget line indices: the template lines come first)
+ * @throws EngineInputError (`correlations`, `correlations[n].between`, `correlations[n].coefficient`)
+ */
+function templateCorrelations(correlations: PointComputationInput['correlations'], templateLength: number): BudgetCorrelation[] {
+  if (correlations === undefined || correlations === null) return []
+  return validateCorrelations(correlations, templateLength).map(({ i, j, r }) => ({ between: [i, j] as [number, number], coefficient: r }))
+}
+
 /** The reading-model field names become the point's own: T_s comes from the reference input. */
 function pointField(field: string, reference: PointComputationInput['reference']): string {
   if (field === 'sourceTemperatureK') return reference.kind === 'source-correction' ? 'sourceIndicatedK' : 'referenceReadingK'
@@ -208,13 +225,16 @@ export function computePoint(input: PointComputationInput): PointResult {
   }
   lines.push({ name: RESOLUTION_NAME, type: 'B', input: 'reading', distribution: 'resolution', value: input.resolutionK, unit: 'K', standardUncertainty: input.resolutionK / Math.sqrt(12), sensitivity: 1, dof: null })
 
+  const correlations = templateCorrelations(input.correlations, input.template.length)
   const budget = evaluateBudget(
     lines.map(l => ({ name: l.name, standardUncertainty: l.standardUncertainty, sensitivity: l.sensitivity, dof: l.dof })),
-    { coverageProbability: COVERAGE_PROBABILITY },
+    { coverageProbability: COVERAGE_PROBABILITY, ...(correlations.length ? { correlations } : {}) },
   )
+  if (budget.correlation) notes.push(...budget.correlation.notes)
   const U = budget.expandedUncertainty
   const cmcK = cmcAt(input.cmc, referenceTemperatureK)
-  const stated = cmcK !== null && cmcK > U ? cmcK : U
+  const cmcApplied = cmcK !== null && cmcK > U
+  const stated = cmcApplied ? cmcK : U
   const rounded = roundResult(error, stated)
   const rule = input.rule
   const conformity = evaluateConformity({
@@ -224,6 +244,8 @@ export function computePoint(input: PointComputationInput): PointResult {
     expandedUncertainty: stated,
     rule,
     ...(rule !== 'simple-acceptance' ? { guardBandFactor: input.guardBandFactor ?? 1 } : {}),
+    // u = U_stated/k: the CMC is an expanded uncertainty at k = 2 (CmcEntry), the computed U has the budget's k
+    coverageFactor: cmcApplied ? CMC_COVERAGE_FACTOR : budget.coverageFactor,
   })
 
   return {
@@ -244,8 +266,9 @@ export function computePoint(input: PointComputationInput): PointResult {
       expandedUncertaintyK: U,
       cmcK,
       statedUncertaintyK: stated,
-      cmcApplied: cmcK !== null && cmcK > U,
+      cmcApplied,
       notes,
+      ...(budget.correlation ? { covarianceK2: budget.correlation.covarianceTerm } : {}),
     },
     rounded: { error: rounded.value, uncertainty: rounded.uncertainty, errorText: rounded.valueText, uncertaintyText: rounded.uncertaintyText },
     conformity: {
@@ -256,6 +279,7 @@ export function computePoint(input: PointComputationInput): PointResult {
       acceptanceLimit: conformity.acceptanceLimit,
       verdict: conformity.verdict,
       statement: conformity.statement,
+      probabilityOfConformity: conformity.probabilityOfConformity!,
     },
     engineVersion: ENGINE_VERSION,
     inputs: input,

@@ -9,12 +9,22 @@
  *   resolution, instrument ambient …), are added to the output as independent zero-mean terms scaled
  *   by their sensitivity — exact for the reading lines (c = 1) and first-order for the others, which
  *   the notes say.
- * - Distributions (JCGM 101 6.4): normal U/k → Gaussian; rectangular, triangular, U-shaped (arcsine)
- *   with their half-width; a line given by its standard uncertainty with finite ν → scaled and
- *   shifted t with ν degrees of freedom (6.4.9), with ν = ∞ → Gaussian; the display resolution →
- *   rectangular of width δ.
+ * - Distributions (JCGM 101 6.4): every Type B line is sampled from its stated distribution: normal
+ *   U/k → Gaussian; rectangular, triangular, U-shaped (arcsine) with their half-width; the display
+ *   resolution → rectangular of width δ; a Type B line given by its standard uncertainty → Gaussian
+ *   (6.4.7), whatever its ν. Degrees of freedom of a Type B line belong to the GUM's Welch–Satterthwaite
+ *   step only and never make its distribution a t. Only a Type A line given by its standard uncertainty
+ *   with finite ν — the mean of n indications, s/√n with ν = n − 1, as the repeatability line — is a
+ *   scaled and shifted t with ν degrees of freedom (6.4.9); with ν = ∞ a Gaussian.
+ * - Correlations (the point's `inputs.correlations`, pairs of template indices with r): each pair of
+ *   lines becomes a pair of Monte Carlo inputs sampled jointly (JCGM 101 6.4.8 with a Gaussian copula
+ *   for non-normal lines; see shared/uncertainty/montecarlo.ts). A line added to the output enters as
+ *   |cᵢ|·δᵢ, so r is multiplied by the sign of cᵢ for each such line. Use {@link monteCarloPlanInputs}
+ *   for the five model inputs and the output terms as one list with the correlations in its indices,
+ *   and {@link planModel} for the matching model (reading + Σ output terms): correlated output terms
+ *   must be drawn in the same trials as the model inputs.
  */
-import type { MonteCarloInput } from '../uncertainty/montecarlo'
+import type { MonteCarloCorrelation, MonteCarloInput } from '../uncertainty/montecarlo'
 import type { BudgetLine, PointResult } from '../types/runs'
 
 export const MC_MODEL_INPUTS = ['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
@@ -34,6 +44,11 @@ export interface MonteCarloPlan {
   inputs: Record<McModelInput, MonteCarloInput>
   /** Zero-mean terms added to the model output, K. */
   outputTerms: MonteCarloInput[]
+  /**
+   * Correlated pairs, indices in the order of {@link monteCarloPlanInputs}: 0–4 the model inputs in
+   * {@link MC_MODEL_INPUTS} order, 5 + k the output term k. Empty without correlations.
+   */
+  correlations: MonteCarloCorrelation[]
   /** The GUM result to validate: y = expected reading, u = u_c, U = k·u_c (computed, before any CMC floor), K. */
   gum: { y: number, u: number, U: number }
   notes: string[]
@@ -41,7 +56,7 @@ export interface MonteCarloPlan {
 
 /**
  * A distribution for one budget line with centre `value` and scale factor `scale` (|c| for an output term).
- * @param line - budget line (u in the input's unit)
+ * @param line - budget line (u in the input's unit); its `type` decides between t and Gaussian for a 'standard' line
  * @param value - centre of the distribution, input unit (0 for an output term)
  * @param scale - factor applied to the width (1 for a model input, |cᵢ| for an output term)
  * @returns a Monte Carlo input
@@ -56,7 +71,9 @@ export function lineDistribution(line: BudgetLine, value: number, scale: number)
     case 'u-shaped': return { name, distribution: 'u-shaped', value, halfWidth: u * Math.SQRT2 }
     case 'resolution': return { name, distribution: 'rectangular', value, halfWidth: (u * Math.sqrt(12)) / 2 }
     case 'standard':
-      if (line.dof !== null && line.dof > 0) return { name, distribution: 'student-t', value, scale: u, dof: line.dof }
+      // JCGM 101 6.4.9: only a Type A mean (s/√n, ν = n − 1) is a scaled and shifted t; a Type B
+      // standard uncertainty is Gaussian (6.4.7) whatever its ν
+      if (line.type === 'A' && line.dof !== null && Number.isFinite(line.dof) && line.dof > 0) return { name, distribution: 'student-t', value, scale: u, dof: line.dof }
       return { name, distribution: 'normal', value, standardUncertainty: u }
     default: return { name, distribution: 'normal', value, standardUncertainty: u }
   }
@@ -79,23 +96,71 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
   const notes: string[] = []
   const outputTerms: MonteCarloInput[] = []
   const inputs = Object.fromEntries(MC_MODEL_INPUTS.map(k => [k, { name: k, distribution: 'constant', value: at[k] } as MonteCarloInput])) as Record<McModelInput, MonteCarloInput>
-  for (const k of MC_MODEL_INPUTS) {
-    const lines = result.budget.components.filter(l => LINE_INPUT[l.input] === k && l.standardUncertainty > 0)
-    if (!lines.length) continue
-    const sorted = [...lines].sort((a, b) => b.contributionK - a.contributionK)
+  // where each budget line went: a model input slot (0–4) or an output term (5 + k), with its sign
+  const slotOf = new Map<number, { slot: number, sign: number }>()
+  const lines = result.budget.components
+  const indexOf = new Map(lines.map((l, i) => [l, i]))
+  for (const [slot, k] of MC_MODEL_INPUTS.entries()) {
+    const onInput = lines.filter(l => LINE_INPUT[l.input] === k && l.standardUncertainty > 0)
+    if (!onInput.length) continue
+    const sorted = [...onInput].sort((a, b) => b.contributionK - a.contributionK)
     inputs[k] = { ...lineDistribution(sorted[0]!, at[k], 1), name: k }
+    slotOf.set(indexOf.get(sorted[0]!)!, { slot, sign: 1 })
     for (const extra of sorted.slice(1)) {
+      slotOf.set(indexOf.get(extra)!, { slot: MC_MODEL_INPUTS.length + outputTerms.length, sign: Math.sign(extra.sensitivity) || 1 })
       outputTerms.push(lineDistribution(extra, 0, Math.abs(extra.sensitivity)))
       notes.push(`${extra.name}: a second component on ${extra.input}, added to the reading to first order (c = ${Number(extra.sensitivity.toPrecision(4))})`)
     }
   }
-  for (const l of result.budget.components.filter(l => l.input === 'reading' && l.standardUncertainty > 0)) {
+  lines.forEach((l, i) => {
+    if (l.input !== 'reading' || !(l.standardUncertainty > 0)) return
+    slotOf.set(i, { slot: MC_MODEL_INPUTS.length + outputTerms.length, sign: 1 })
     outputTerms.push(lineDistribution(l, 0, 1))
+  })
+  const correlations: MonteCarloCorrelation[] = []
+  for (const c of result.inputs.correlations ?? []) {
+    const [a, b] = c.between
+    const sa = slotOf.get(a)
+    const sb = slotOf.get(b)
+    if (!sa || !sb || c.coefficient === 0) {
+      if (c.coefficient !== 0) notes.push(`The correlation between lines ${a} and ${b} is left out: one of them has no uncertainty.`)
+      continue
+    }
+    if (sa.slot === sb.slot) continue
+    correlations.push({ between: [sa.slot, sb.slot], coefficient: c.coefficient * sa.sign * sb.sign })
+    notes.push(`${lines[a]!.name} and ${lines[b]!.name}: sampled jointly with r = ${c.coefficient} (JCGM 101 6.4.8; a Gaussian copula matched to r for non-normal lines).`)
   }
   return {
     inputs,
     outputTerms,
+    correlations,
     gum: { y: result.expectedReadingK, u: result.budget.combinedStandardUncertaintyK, U: result.budget.expandedUncertaintyK },
     notes,
+  }
+}
+
+/**
+ * The plan's distributions as one list: the five model inputs in {@link MC_MODEL_INPUTS} order, then the
+ * output terms; with the correlations in the same indices. Run it with {@link planModel}.
+ * @param plan - a Monte Carlo plan
+ * @returns inputs (model inputs in K or emissivity, output terms in K) and correlations
+ * @example runMonteCarlo(planModel(readingModel(band)), ...Object.values(monteCarloPlanInputs(plan)))
+ */
+export function monteCarloPlanInputs(plan: MonteCarloPlan): { inputs: MonteCarloInput[], correlations: MonteCarloCorrelation[] } {
+  return { inputs: [...MC_MODEL_INPUTS.map(k => plan.inputs[k]), ...plan.outputTerms], correlations: plan.correlations }
+}
+
+/**
+ * The model for {@link monteCarloPlanInputs}: y = reading(x₀…x₄) + Σ x₅₊ₖ (the output terms).
+ * @param reading - the reading model over [T_s, ε_s, T_w, T_d, ε_i] (e.g. `readingModel(band)`), K
+ * @returns model function, K
+ * @example planModel(readingModel(band))(x) = reading(x) + x[5] + x[6] + …
+ */
+export function planModel(reading: (x: ArrayLike<number>) => number): (x: Float64Array) => number {
+  const n = MC_MODEL_INPUTS.length
+  return (x: Float64Array): number => {
+    let s = reading(x)
+    for (let i = n; i < x.length; i++) s += x[i]!
+    return s
   }
 }

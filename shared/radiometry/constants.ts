@@ -157,3 +157,21 @@ export function resolveConstants(choice?: RadiationConstantsChoice): RadiationCo
   if (typeof choice === 'object' && choice !== null && typeof choice.c2UmK === 'number') return choice
   throw new EngineInputError('constants', `unknown radiation constants '${String(choice)}'; use 'CODATA-2018' or 'ITS-90'`)
 }
+
+/** The radiation constants a result was computed with, as stated in that result (JSON-safe). */
+export interface ConstantsUsed {
+  /** `'CODATA-2018'` or `'ITS-90'`. */
+  readonly id: RadiationConstantsId
+  /** Second radiation constant c2 used, m·K (1.438776877e-2 for CODATA 2018, 0.014388 for ITS-90). */
+  readonly c2: number
+}
+
+/**
+ * The statement of the constants used, for a result object.
+ * @param c - resolved constants
+ * @returns `{ id, c2 }` with c2 in m·K
+ * @example constantsUsed(ITS_90) → { id: 'ITS-90', c2: 0.014388 }
+ */
+export function constantsUsed(c: RadiationConstants): ConstantsUsed {
+  return { id: c.id, c2: c.c2 }
+}

@@ -16,6 +16,9 @@ export {
   bandRadiance,
   bandRadianceDerivative,
   bandRadianceQuadrature,
+  vacuumWavelengthFactor,
+  STANDARD_AIR_REFRACTIVE_INDEX,
+  type WavelengthMedium,
   type Band,
   type RectangularBand,
   type TabulatedBand,
@@ -32,3 +35,13 @@ export {
   type ReadingSensitivities,
 } from './reading'
 export * from './sakumaHattori'
+export {
+  surfaceTemperatureFromRadianceTemperature,
+  expectedReadingFromRadianceTemperature,
+  expectedReadingFromRadianceTemperatureK,
+  radianceTemperatureReadingModel,
+  type RadianceTemperatureInput,
+  type RadianceTemperatureReadingInput,
+  type RadianceTemperatureReading,
+  type RadianceTemperatureSensitivities,
+} from './radianceTemperature'

@@ -25,6 +25,8 @@ import {
   bandRadianceUnchecked,
   PreparedBand,
   prepareBand,
+  needsPreparing,
+  vacuumWavelengthFactor,
   validateBand,
   type Band,
 } from './planck'
@@ -160,8 +162,9 @@ export function guessFor(band: Band | PreparedBand, signal: number, c: Radiation
     return sakumaHattoriGuess(band.meanWavelengthUm, band.standardDeviationUm, band.integratedResponseUm, signal, c)
   }
   if (band.kind === 'rectangular') {
-    const w = band.lambda2Um - band.lambda1Um
-    return sakumaHattoriGuess((band.lambda1Um + band.lambda2Um) / 2, w / Math.sqrt(12), w, signal, c)
+    const n = vacuumWavelengthFactor(band)
+    const w = (band.lambda2Um - band.lambda1Um) * n
+    return sakumaHattoriGuess(((band.lambda1Um + band.lambda2Um) / 2) * n, w / Math.sqrt(12), w, signal, c)
   }
   return Number.NaN
 }
@@ -193,7 +196,7 @@ export function temperatureFromRadiance(band: Band | PreparedBand, radiance: num
     throw new EngineInputError('radiance', `must be a finite radiance above 0 W·m⁻²·sr⁻¹, got ${String(radiance)}`)
   }
   // a plain tabulated band is prepared once per call, not once per iteration
-  const p = band.kind === 'tabulated' && !(band instanceof PreparedBand) ? prepareBand(band) : band
+  const p = needsPreparing(band) ? prepareBand(band) : band
   const guess = options.initialTemperatureK ?? guessFor(p, radiance, c)
   return invertUnchecked(p, radiance, c, tMin, tMax, guess, 'radiance')
 }

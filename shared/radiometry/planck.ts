@@ -28,11 +28,34 @@
  *   rectangular dS/dT = (c1L/c2⁴)·T³·[4·D − x1⁴/(e^x1 − 1) + x2⁴/(e^x2 − 1)].
  *
  * Functions that depend on c2 take `constants` (default CODATA 2018; `'ITS-90'` for c2 = 0.014388 m·K).
+ *
+ * Wavelengths are vacuum wavelengths, as in Planck's law and in the ITS-90 radiometric definition,
+ * unless a band says `medium: 'air'`: its wavelengths (edges or table points) are then wavelengths in
+ * air and are converted once, λ_vac = n·λ_air, with n = `refractiveIndex` (default
+ * {@link STANDARD_AIR_REFRACTIVE_INDEX}), before anything is computed. Only the wavelength scale is
+ * converted; the relative responsivity values are kept, so an air band [λ1, λ2] gives exactly the
+ * vacuum band [n·λ1, n·λ2].
  */
 
 import { resolveConstants, type RadiationConstants, type RadiationConstantsChoice } from './constants'
 import { EngineInputError, requireTemperature } from './errors'
 import { between2, between3, between3WithBracket, boundary3, boundary4, headPow3, SERIES_SWITCH_X, tailExp3, Z3 } from './series'
+
+/**
+ * Refractive index of standard air used to convert wavelengths in air to vacuum, λ_vac = n·λ_air,
+ * when a band says `medium: 'air'` without its own `refractiveIndex`. Value 1.00028. Source: Ciddor's
+ * dispersion formula for standard air (P. E. Ciddor, Appl. Opt. 35, 1566 (1996); dry air, 15 °C,
+ * 101.325 kPa, 450 ppm CO₂): (n − 1)·10⁸ = 5792105/(238.0185 − σ²) + 167917/(57.362 − σ²), σ = 1/λ in
+ * µm⁻¹, gives n − 1 = 2.763e-4 at 0.65 µm and 2.732e-4 at 1.6 µm (the formula is stated for
+ * 0.23–1.69 µm; its long-wave limit is 2.726e-4). 1.00028 rounds these; the difference, below 1e-5
+ * relative in a band edge, is far below the uncertainty of any band specification. Give
+ * `refractiveIndex` for other conditions.
+ * @example a 0.65 µm wavelength in air is 0.650182 µm in vacuum
+ */
+export const STANDARD_AIR_REFRACTIVE_INDEX = 1.00028
+
+/** Medium in which a band's wavelengths are stated: vacuum (default) or air. */
+export type WavelengthMedium = 'vacuum' | 'air'
 
 /** A band with unit responsivity from λ1 to λ2 (µm) and zero outside. */
 export interface RectangularBand {
@@ -41,6 +64,10 @@ export interface RectangularBand {
   readonly lambda1Um: number
   /** Long-wavelength edge λ2, µm (> λ1). */
   readonly lambda2Um: number
+  /** Medium of the stated wavelengths (default 'vacuum'); 'air' converts them by λ_vac = n·λ_air. */
+  readonly medium?: WavelengthMedium
+  /** n of the air, only with medium 'air' (default {@link STANDARD_AIR_REFRACTIVE_INDEX}); 1 ≤ n < 1.01. */
+  readonly refractiveIndex?: number
 }
 
 /**
@@ -50,6 +77,10 @@ export interface RectangularBand {
 export interface TabulatedBand {
   readonly kind: 'tabulated'
   readonly points: ReadonlyArray<readonly [number, number]>
+  /** Medium of the table's wavelengths (default 'vacuum'); 'air' converts them by λ_vac = n·λ_air. */
+  readonly medium?: WavelengthMedium
+  /** n of the air, only with medium 'air' (default {@link STANDARD_AIR_REFRACTIVE_INDEX}); 1 ≤ n < 1.01. */
+  readonly refractiveIndex?: number
 }
 
 /** A spectral band as accepted by the API (`band` field). */
@@ -139,7 +170,44 @@ export class PreparedBand {
   }
 }
 
+/**
+ * Factor n that turns the band's stated wavelengths into vacuum wavelengths (1 for a vacuum band or a
+ * PreparedBand, whose wavelengths are already in vacuum), validating `medium` and `refractiveIndex`.
+ * @param band - band as given, or a PreparedBand
+ * @returns n, dimensionless (≥ 1)
+ * @throws EngineInputError (`band.medium`, `band.refractiveIndex`)
+ * @example vacuumWavelengthFactor({ kind: 'rectangular', lambda1Um: 8, lambda2Um: 14, medium: 'air' }) === 1.00028
+ */
+export function vacuumWavelengthFactor(band: Band | PreparedBand): number {
+  if (band instanceof PreparedBand) return 1
+  const { medium, refractiveIndex: n } = band as { medium?: unknown, refractiveIndex?: unknown }
+  if (medium === undefined || medium === 'vacuum') {
+    if (n !== undefined) throw new EngineInputError('band.refractiveIndex', "is only used with medium 'air' (wavelengths in vacuum need no conversion)")
+    return 1
+  }
+  if (medium !== 'air') throw new EngineInputError('band.medium', `must be 'vacuum' or 'air', got ${String(medium)}`)
+  if (n === undefined) return STANDARD_AIR_REFRACTIVE_INDEX
+  if (typeof n !== 'number' || !Number.isFinite(n) || n < 1 || n >= 1.01) {
+    throw new EngineInputError('band.refractiveIndex', `must be a refractive index of air, 1 ≤ n < 1.01, got ${String(n)}`)
+  }
+  return n
+}
+
+/**
+ * @internal True for a plain band that is best prepared once before repeated evaluation: a table, or
+ * wavelengths in air (converted to vacuum by {@link prepareBand}).
+ */
+export function needsPreparing(band: Band | PreparedBand): band is Band {
+  return typeof band === 'object' && band !== null && !(band instanceof PreparedBand) && (band.kind === 'tabulated' || inAir(band))
+}
+
+/** True for a plain band whose wavelengths need converting to vacuum (medium 'air'). */
+function inAir(band: Band | PreparedBand): boolean {
+  return !(band instanceof PreparedBand) && (band as { medium?: unknown }).medium === 'air'
+}
+
 function validateRectangular(band: RectangularBand): void {
+  vacuumWavelengthFactor(band)
   const l1 = band.lambda1Um
   const l2 = band.lambda2Um
   if (typeof l1 !== 'number' || !Number.isFinite(l1) || l1 <= 0) {
@@ -200,17 +268,22 @@ export function prepareBand(band: Band | PreparedBand): PreparedBand {
   if (typeof band !== 'object' || band === null) throw new EngineInputError('band', 'must be an object with a kind')
   if (band.kind === 'rectangular') {
     validateRectangular(band)
+    const n = vacuumWavelengthFactor(band)
+    const medium = n === 1 && !inAir(band) ? {} : { medium: 'air' as const, refractiveIndex: n }
     return new PreparedBand(
-      { kind: 'rectangular', lambda1Um: band.lambda1Um, lambda2Um: band.lambda2Um },
-      Float64Array.of(band.lambda1Um, band.lambda2Um),
+      { kind: 'rectangular', lambda1Um: band.lambda1Um, lambda2Um: band.lambda2Um, ...medium },
+      Float64Array.of(band.lambda1Um * n, band.lambda2Um * n),
       Float64Array.of(1, 1),
     )
   }
   if (band.kind === 'tabulated') {
+    const n = vacuumWavelengthFactor(band)
     const [lam, r] = tableArrays(band)
     const copy: [number, number][] = []
     for (let i = 0; i < lam.length; i++) copy.push([lam[i]!, r[i]!])
-    return new PreparedBand({ kind: 'tabulated', points: copy }, lam, r)
+    const medium = n === 1 && !inAir(band) ? {} : { medium: 'air' as const, refractiveIndex: n }
+    if (n !== 1) for (let i = 0; i < lam.length; i++) lam[i] = lam[i]! * n
+    return new PreparedBand({ kind: 'tabulated', points: copy, ...medium }, lam, r)
   }
   throw new EngineInputError('band', `unknown band kind '${String((band as { kind?: unknown }).kind)}'; use 'rectangular' or 'tabulated'`)
 }
@@ -412,7 +485,13 @@ const GL8_W = [
 
 /** @internal Band radiance with validated band and temperature. */
 export function bandRadianceUnchecked(band: Band | PreparedBand, T: number, c: RadiationConstants): number {
-  if (band.kind === 'rectangular') return rectangularRadiance(band.lambda1Um, band.lambda2Um, T, c)
+  if (band.kind === 'rectangular') {
+    if (inAir(band)) {
+      const n = vacuumWavelengthFactor(band)
+      return rectangularRadiance(band.lambda1Um * n, band.lambda2Um * n, T, c)
+    }
+    return rectangularRadiance(band.lambda1Um, band.lambda2Um, T, c)
+  }
   const p = band instanceof PreparedBand ? band : prepareBand(band)
   tabulatedRadianceAndDerivative(p, T, c, false, SCRATCH)
   return SCRATCH[0]!
@@ -426,7 +505,8 @@ export function bandRadianceAndDerivativeUnchecked(
   out: Float64Array,
 ): void {
   if (band.kind === 'rectangular') {
-    rectangularRadianceAndDerivative(band.lambda1Um, band.lambda2Um, T, c, out)
+    const n = inAir(band) ? vacuumWavelengthFactor(band) : 1
+    rectangularRadianceAndDerivative(band.lambda1Um * n, band.lambda2Um * n, T, c, out)
     return
   }
   const p = band instanceof PreparedBand ? band : prepareBand(band)
@@ -455,7 +535,7 @@ export function bandRadiance(band: Band | PreparedBand, temperatureK: number, co
 
 /** Validates a band once: a plain tabulated band is prepared (validation included), others checked. */
 function checkedBand(band: Band | PreparedBand): Band | PreparedBand {
-  if (typeof band === 'object' && band !== null && band.kind === 'tabulated' && !(band instanceof PreparedBand)) return prepareBand(band)
+  if (typeof band === 'object' && band !== null && (band.kind === 'tabulated' || inAir(band)) && !(band instanceof PreparedBand)) return prepareBand(band)
   validateBand(band)
   return band
 }

@@ -20,10 +20,10 @@
  * (tested against central differences).
  */
 
-import { resolveConstants, type RadiationConstants, type RadiationConstantsChoice } from './constants'
+import { constantsUsed, resolveConstants, type ConstantsUsed, type RadiationConstants, type RadiationConstantsChoice } from './constants'
 import { EngineInputError, requireEmissivity, requireTemperature } from './errors'
 import { INVERSION_RANGE_K, invertUnchecked } from './inversion'
-import { bandRadianceAndDerivativeUnchecked, bandRadianceUnchecked, prepareBand, validateBand, type Band, type PreparedBand } from './planck'
+import { bandRadianceAndDerivativeUnchecked, bandRadianceUnchecked, needsPreparing, prepareBand, validateBand, type Band, type PreparedBand } from './planck'
 
 /** Inputs of the reading model (the API's `expected-reading` body uses the same names). */
 export interface ReadingInput {
@@ -49,6 +49,8 @@ export interface ExpectedReading {
   expectedReadingK: number
   /** Band radiance the instrument attributes to the target, S(T_meas), W·m⁻²·sr⁻¹. */
   instrumentSignal: number
+  /** The radiation constants used (id and c2 in m·K). */
+  constants: ConstantsUsed
 }
 
 /** Sensitivity coefficients ∂T_meas/∂x of the reading model. */
@@ -148,7 +150,8 @@ function negativeSignal(s: number): EngineInputError {
  * ≈ 1 µs for a rectangular band; prepare a tabulated band once with prepareBand for repeated calls.
  * @param input - band; sourceTemperatureK, reflectedTemperatureK, instrumentTemperatureK in K;
  *   sourceEmissivity, emissivitySetting in (0, 1]; constants (default CODATA 2018)
- * @returns expectedReadingK (K) and instrumentSignal S(T_meas) (W·m⁻²·sr⁻¹)
+ * @returns expectedReadingK (K), instrumentSignal S(T_meas) (W·m⁻²·sr⁻¹) and the constants used
+ *   (`constants.id`, `constants.c2` in m·K)
  * @throws EngineInputError with the field at fault; `instrumentTemperatureK` when the instrument side
  *   would need a negative signal; `sourceTemperatureK` when the reading is outside 50 K to 5000 K
  * @example a 0.95 plate at 373.15 K, surroundings and instrument at 296.15 K, ε_i = 1, 8–14 µm:
@@ -156,10 +159,10 @@ function negativeSignal(s: number): EngineInputError {
  */
 export function expectedReading(input: ReadingInput): ExpectedReading {
   const c = validate(input)
-  const band = input.band.kind === 'tabulated' ? prepareBand(input.band) : input.band
+  const band = needsPreparing(input.band) ? prepareBand(input.band) : input.band
   const { sourceTemperatureK: ts, sourceEmissivity: es, reflectedTemperatureK: tw, instrumentTemperatureK: td, emissivitySetting: ei } = input
   const t = expectedReadingUnchecked(band, ts, es, tw, td, ei, c)
-  return { expectedReadingK: t, instrumentSignal: bandRadianceUnchecked(band, t, c) }
+  return { expectedReadingK: t, instrumentSignal: bandRadianceUnchecked(band, t, c), constants: constantsUsed(c) }
 }
 
 /**
@@ -171,7 +174,7 @@ export function expectedReading(input: ReadingInput): ExpectedReading {
  */
 export function expectedReadingK(input: ReadingInput): number {
   const c = validate(input)
-  const band = input.band.kind === 'tabulated' ? prepareBand(input.band) : input.band
+  const band = needsPreparing(input.band) ? prepareBand(input.band) : input.band
   return expectedReadingUnchecked(
     band,
     input.sourceTemperatureK,
@@ -188,14 +191,15 @@ export function expectedReadingK(input: ReadingInput): number {
  * reading model with the closed-form dS/dT (see the module notes for the formulas).
  * @param input - see {@link ReadingInput}
  * @returns expectedReadingK (K); sourceTemperature, reflectedTemperature, instrumentTemperature (K/K);
- *   sourceEmissivity, emissivitySetting (K per unit emissivity)
+ *   sourceEmissivity, emissivitySetting (K per unit emissivity); the constants used are those of
+ *   {@link expectedReading} for the same input (`constants`)
  * @throws EngineInputError as {@link expectedReading}
  * @example 8–14 µm, plate ε_s = 0.95 at 373.15 K, T_w = T_d = 296.15 K, ε_i = 0.95:
  *   sourceEmissivity ≈ 64 K per unit emissivity (≈ 0.64 K per 0.01)
  */
 export function readingSensitivities(input: ReadingInput): ReadingSensitivities {
   const c = validate(input)
-  const band = input.band.kind === 'tabulated' ? prepareBand(input.band) : input.band
+  const band = needsPreparing(input.band) ? prepareBand(input.band) : input.band
   const { sourceTemperatureK: ts, sourceEmissivity: es, reflectedTemperatureK: tw, instrumentTemperatureK: td, emissivitySetting: ei } = input
   const tm = expectedReadingUnchecked(band, ts, es, tw, td, ei, c)
   bandRadianceAndDerivativeUnchecked(band, tm, c, OUT)
@@ -234,7 +238,7 @@ export function readingModel(
   band: Band | PreparedBand,
   constants?: RadiationConstantsChoice,
 ): (x: ArrayLike<number>) => number {
-  const p = band.kind === 'tabulated' ? prepareBand(band) : (validateBand(band), band)
+  const p = needsPreparing(band) ? prepareBand(band) : (validateBand(band), band)
   const c = resolveConstants(constants)
   return (x: ArrayLike<number>): number => expectedReadingOrNaN(p, x[0]!, x[1]!, x[2]!, x[3]!, x[4]!, c)
 }

@@ -107,8 +107,10 @@ export interface PointBudget {
   statedUncertaintyK: number
   /** True when the CMC was above the computed U and was stated instead. */
   cmcApplied: boolean
-  /** Plain remarks on the budget (e.g. repeatability omitted with one reading). */
+  /** Plain remarks on the budget (e.g. repeatability omitted with one reading, correlated lines). */
   notes: string[]
+  /** 2 Σ_{i<j} cᵢcⱼu(xᵢ)u(xⱼ)r, K², when the point has correlations (GUM 5.2.2). */
+  covarianceK2?: number
 }
 
 export interface PointConformity {
@@ -122,6 +124,19 @@ export interface PointConformity {
   acceptanceLimit: number
   verdict: 'pass' | 'conditional-pass' | 'conditional-fail' | 'fail'
   statement: string
+  /**
+   * Probability that the error lies within ±TL for a normal PDF with expectation E and u = U_stated/k
+   * (JCGM 106:2012, 7.4), dimensionless. Absent in results computed before engine 1.1.0.
+   */
+  probabilityOfConformity?: number
+}
+
+/** A correlation between two template components of a point's budget (GUM 5.2.2). */
+export interface TemplateCorrelation {
+  /** Indices [i, j] of the two components in `template` (0-based, i ≠ j). */
+  between: [number, number]
+  /** Correlation coefficient r, −1 ≤ r ≤ 1. */
+  coefficient: number
 }
 
 /** How the reference temperature of a point was obtained. */
@@ -151,6 +166,8 @@ export interface PointComputationInput {
   /** Display resolution δ of the instrument, K. */
   resolutionK: number
   template: TemplateComponent[]
+  /** Correlated pairs of template components (indices into `template`); omitted or empty: all independent. */
+  correlations?: TemplateCorrelation[]
   cmc: CmcEntry[]
   accuracy: AccuracySpec
   rule: DecisionRuleName

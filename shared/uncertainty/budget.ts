@@ -7,9 +7,25 @@
  *   resolution: the **full** resolution step δ (the last-digit increment of the display), given in
  *   the `resolution` field, → δ/√12 (GUM F.2.2.1: a rectangular distribution of half-width δ/2).
  *   `halfWidth` is not used for 'resolution', to avoid confusing the step with its half.
- * - Combined standard uncertainty u_c² = Σ (cᵢ·u(xᵢ))² (GUM 5.1.2; uncorrelated inputs).
+ * - Combined standard uncertainty u_c² = Σ (cᵢ·u(xᵢ))² (GUM 5.1.2; uncorrelated inputs), and with
+ *   correlated inputs (GUM 5.2.2, eq. (16)) u_c² = Σ cᵢ²u²(xᵢ) + 2 Σ_{i<j} cᵢcⱼu(xᵢ)u(xⱼ)r(xᵢ,xⱼ), the
+ *   pairs and their r given in `options.correlations` (signed sensitivities enter here). The
+ *   correlation matrix of the lines named in pairs must be positive semi-definite (checked by a
+ *   Cholesky factorisation): otherwise the coefficients contradict each other and are rejected. A u_c²
+ *   that comes out below zero only by rounding (r = −1 between two lines that cancel exactly) is set to
+ *   0 and the result says so in `correlation.notes`.
  * - Effective degrees of freedom by Welch–Satterthwaite, ν_eff = u_c⁴ / Σ (cᵢu(xᵢ))⁴/νᵢ (GUM G.4.1,
  *   eq. G.2b); components with ν = ∞ add nothing to the denominator; all infinite → ν_eff = ∞.
+ *   The formula assumes independent components. With correlations, the lines joined by non-zero r form
+ *   groups (connected sets); each group enters the denominator as one component whose variance is the
+ *   group's share of u_c² (its own variances plus its covariance terms) with ν = the smallest νᵢ of the
+ *   group: for equal νᵢ (an "ensemble" of quantities estimated together) this is the treatment of
+ *   R. Willink, "A generalization of the Welch–Satterthwaite formula for use with correlated uncertainty
+ *   components", Metrologia 44, 340–349 (2007), §4.1.1, as implemented in the GUM Tree Calculator (MSL,
+ *   GTC/lib.py `welch_satterthwaite`); the paper itself was not consulted (from memory and that source).
+ *   A group of lines all with ν = ∞ adds nothing (as there). For unequal finite νᵢ in one group no
+ *   published formula is applied: the smallest ν is our conservative choice (smaller ν, larger k).
+ *   Uncorrelated lines enter as in G.2b, so r = 0 everywhere gives exactly the uncorrelated result.
  * - Coverage factor k = t_{(1+p)/2}(ν_eff), the two-sided Student-t quantile (GUM G.3.4, G.6.4),
  *   from `@stdlib/stats-base-dists-t-quantile`. GUM G.4.1 note: a non-integer ν_eff is truncated to
  *   the next lower integer by default (`dofRounding: 'truncate'`, as in GUM H.1, and conservative),
@@ -18,7 +34,10 @@
  *   For ν = ∞ the normal quantile is needed; the stdlib t quantile returns NaN at ν = ∞, so it is
  *   evaluated at ν = 10¹⁵, where it equals the normal quantile to ~1e-15 (tested against erf).
  * - Expanded uncertainty U = k·u_c (GUM 6.2.1).
- * - Contributions |cᵢ|·u(xᵢ) and their share of u_c² in percent.
+ * - Contributions |cᵢ|·u(xᵢ) and their share of u_c² in percent: 100·cᵢu(xᵢ)·Σⱼ r(i,j)cⱼu(xⱼ)/u_c² with
+ *   r(i,i) = 1, i.e. each covariance term split equally between its two lines. Without correlations this
+ *   is 100·(cᵢu(xᵢ))²/u_c²; the shares always add to 100 %, and with correlations one may be negative (a
+ *   line that lowers u_c) or above 100 %.
  * - Rounding (GUM 7.2.6): U to two significant digits, to nearest by default or up on request, and
  *   the value to the same decimal place: {@link roundResult}.
  *
@@ -63,7 +82,10 @@ export interface BudgetContribution {
   sensitivity: number
   /** |cᵢ|·u(xᵢ), output unit. */
   contribution: number
-  /** 100·(cᵢu(xᵢ))²/u_c², percent of the combined variance (0 when u_c = 0). */
+  /**
+   * Share of u_c², percent: 100·cᵢu(xᵢ)·Σⱼ r(i,j)cⱼu(xⱼ)/u_c² (= 100·(cᵢu(xᵢ))²/u_c² without correlations);
+   * 0 when u_c = 0. Shares add to 100; with correlations one may be negative.
+   */
   percent: number
   /** νᵢ, or null for infinite. */
   dof: number | null
@@ -84,6 +106,30 @@ export interface BudgetResult {
   /** U = k·u_c, output unit. */
   expandedUncertainty: number
   contributions: BudgetContribution[]
+  /** Present when `options.correlations` has at least one pair: what the correlations did. */
+  correlation?: BudgetCorrelationSummary
+}
+
+/** A correlation coefficient between two budget lines (the API's `correlations[n]`). */
+export interface BudgetCorrelation {
+  /** Indices [i, j] of the two components in `components` (0-based, i ≠ j). */
+  between: readonly [number, number]
+  /** Correlation coefficient r(xᵢ, xⱼ), −1 ≤ r ≤ 1 (GUM 5.2.2). */
+  coefficient: number
+}
+
+/** What the correlations did to a budget (JSON-safe). */
+export interface BudgetCorrelationSummary {
+  /** Σ (cᵢu(xᵢ))², output unit². */
+  uncorrelatedVariance: number
+  /** 2 Σ_{i<j} cᵢcⱼu(xᵢ)u(xⱼ)r(xᵢ,xⱼ), output unit². */
+  covarianceTerm: number
+  /** True when u_c² came out below zero by rounding and was set to 0. */
+  clampedAtZero: boolean
+  /** Lines joined by non-zero r, with the ν and variance used for each group in Welch–Satterthwaite. */
+  groups: { components: number[], dof: number | null, variance: number }[]
+  /** Plain remarks (how ν_eff treated the groups, clamping). */
+  notes: string[]
 }
 
 /** Options for {@link evaluateBudget}. */
@@ -92,6 +138,8 @@ export interface BudgetOptions {
   coverageProbability?: number
   /** How to treat a non-integer ν_eff (default 'truncate', GUM G.4.1). */
   dofRounding?: 'truncate' | 'fractional'
+  /** Correlated pairs of components (GUM 5.2.2); omitted or empty: all independent. */
+  correlations?: readonly BudgetCorrelation[]
 }
 
 /** ν used in place of ∞ for the t quantile (see the module notes). */
@@ -193,12 +241,98 @@ export function standardUncertaintyOf(component: BudgetComponent, index = 0): nu
 }
 
 /**
+ * Validates correlation pairs against a list of n components.
+ * @param correlations - pairs `{ between: [i, j], coefficient: r }`
+ * @param n - number of components
+ * @returns the pairs with their indices ordered (i < j)
+ * @throws EngineInputError (`correlations`, `correlations[m].between`, `correlations[m].coefficient`)
+ */
+export function validateCorrelations(correlations: unknown, n: number): { i: number, j: number, r: number }[] {
+  if (correlations === undefined || correlations === null) return []
+  if (!Array.isArray(correlations)) throw new EngineInputError('correlations', 'must be a list of { between: [i, j], coefficient }')
+  const seen = new Set<string>()
+  return correlations.map((c: unknown, m) => {
+    const f = `correlations[${m}]`
+    if (typeof c !== 'object' || c === null) throw new EngineInputError(f, 'must be an object { between: [i, j], coefficient }')
+    const { between, coefficient } = c as { between?: unknown, coefficient?: unknown }
+    if (!Array.isArray(between) || between.length !== 2) throw new EngineInputError(`${f}.between`, 'must be a pair of component indices [i, j]')
+    const [a, b] = between as unknown[]
+    for (const x of [a, b]) {
+      if (typeof x !== 'number' || !Number.isInteger(x) || x < 0 || x >= n) {
+        throw new EngineInputError(`${f}.between`, `must hold component indices from 0 to ${n - 1}, got ${String(x)}`)
+      }
+    }
+    if (a === b) throw new EngineInputError(`${f}.between`, `must name two different components, got [${String(a)}, ${String(b)}]`)
+    const i = Math.min(a as number, b as number)
+    const j = Math.max(a as number, b as number)
+    const key = `${i},${j}`
+    if (seen.has(key)) throw new EngineInputError(`${f}.between`, `the pair [${i}, ${j}] is given more than once`)
+    seen.add(key)
+    if (typeof coefficient !== 'number' || !Number.isFinite(coefficient) || coefficient < -1 || coefficient > 1) {
+      throw new EngineInputError(`${f}.coefficient`, `must be a correlation coefficient from −1 to 1, got ${String(coefficient)}`)
+    }
+    return { i, j, r: coefficient }
+  })
+}
+
+/**
+ * Throws unless the correlation matrix of the components named in `pairs` (unit diagonal, the given
+ * coefficients, zero elsewhere) is positive semi-definite, by a Cholesky factorisation that accepts
+ * zero pivots within 1e-10 (r = ±1 is allowed).
+ * @param pairs - validated pairs
+ * @param field - API field name for the error (default `correlations`)
+ * @throws EngineInputError naming `field` when the coefficients are not mutually consistent
+ */
+export function requirePositiveSemidefinite(pairs: readonly { i: number, j: number, r: number }[], field = 'correlations'): void {
+  const idx = [...new Set(pairs.flatMap(p => [p.i, p.j]))].sort((a, b) => a - b)
+  const m = idx.length
+  if (m < 3) return // a 2×2 matrix with |r| ≤ 1 always is
+  const pos = new Map(idx.map((v, k) => [v, k]))
+  const a: number[][] = Array.from({ length: m }, (_, k) => Array.from({ length: m }, (_, l) => (k === l ? 1 : 0)))
+  for (const p of pairs) {
+    a[pos.get(p.i)!]![pos.get(p.j)!] = p.r
+    a[pos.get(p.j)!]![pos.get(p.i)!] = p.r
+  }
+  if (!choleskySemidefinite(a)) {
+    throw new EngineInputError(field, 'the correlation coefficients contradict each other (their correlation matrix is not positive semi-definite)')
+  }
+}
+
+/**
+ * @internal In-place lower Cholesky factor of a symmetric matrix, accepting zero pivots (tolerance 1e-10);
+ * returns false when the matrix is not positive semi-definite. On success a[k][l] (l ≤ k) holds L.
+ */
+export function choleskySemidefinite(a: number[][]): boolean {
+  const m = a.length
+  const tol = 1e-10
+  for (let k = 0; k < m; k++) {
+    let d = a[k]![k]!
+    for (let l = 0; l < k; l++) d -= a[k]![l]! * a[k]![l]!
+    if (d < -tol) return false
+    const piv = d > tol ? Math.sqrt(d) : 0
+    a[k]![k] = piv
+    for (let r = k + 1; r < m; r++) {
+      let v = a[r]![k]!
+      for (let l = 0; l < k; l++) v -= a[r]![l]! * a[k]![l]!
+      if (piv === 0) {
+        if (Math.abs(v) > 1e-8) return false
+        a[r]![k] = 0
+      } else a[r]![k] = v / piv
+    }
+    for (let l = k + 1; l < m; l++) a[k]![l] = 0
+  }
+  return true
+}
+
+/**
  * Evaluates an uncertainty budget: u_c, ν_eff, k, U and the contribution of each component
  * (GUM 5.1.2, G.4.1, G.6.4; see the module notes).
  * @param components - at least one component; output unit = unit of cᵢ·u(xᵢ)
- * @param options - coverageProbability (default 0.9545), dofRounding (default 'truncate')
- * @returns JSON-safe result; effectiveDegreesOfFreedom is null when infinite
- * @throws EngineInputError (`components`, `components[i].…`, `coverageProbability`, `dofRounding`)
+ * @param options - coverageProbability (default 0.9545), dofRounding (default 'truncate'), correlations
+ *   (pairs of component indices with r; GUM 5.2.2)
+ * @returns JSON-safe result; effectiveDegreesOfFreedom is null when infinite; `correlation` when pairs were given
+ * @throws EngineInputError (`components`, `components[i].…`, `coverageProbability`, `dofRounding`,
+ *   `correlations`, `correlations[n].between`, `correlations[n].coefficient`)
  * @example GUM H.1 end gauge (contribution form): u_c ≈ 32 nm, ν_eff ≈ 16.7 → 16, k(99 %) = 2.92, U ≈ 93 nm
  */
 export function evaluateBudget(components: readonly BudgetComponent[], options: BudgetOptions = {}): BudgetResult {
@@ -235,11 +369,90 @@ export function evaluateBudget(components: readonly BudgetComponent[], options: 
     cu[i] = Math.abs(c) * u[i]!
     variance += cu[i]! * cu[i]!
   }
+  const pairs = validateCorrelations(options.correlations, n).filter(q => q.r !== 0)
+  const given = Array.isArray(options.correlations) && options.correlations.length > 0
+  let correlation: BudgetCorrelationSummary | undefined
+  // signed cᵢu(xᵢ) and, per line, Σⱼ≠ᵢ r(i,j)cⱼu(xⱼ) (for the shares)
+  const su = new Float64Array(n)
+  const cross = new Float64Array(n)
+  let groupOf: Int32Array | null = null
+  if (pairs.length) {
+    requirePositiveSemidefinite(pairs)
+    for (let i = 0; i < n; i++) su[i] = components[i]!.sensitivity * u[i]!
+    const uncorrelated = variance
+    let covariance = 0
+    for (const { i, j, r } of pairs) {
+      covariance += 2 * r * su[i]! * su[j]!
+      cross[i]! += r * su[j]!
+      cross[j]! += r * su[i]!
+    }
+    variance = uncorrelated + covariance
+    const notes: string[] = []
+    let clamped = false
+    if (!(variance > 0) && uncorrelated > 0) {
+      if (variance < -1e-9 * uncorrelated) {
+        // cannot happen with a positive semi-definite matrix; kept as a guard
+        throw new EngineInputError('correlations', `they make u_c² negative (${variance.toPrecision(3)})`)
+      }
+      clamped = true
+      variance = 0
+      notes.push('The correlated terms cancel: u_c² came out at or below zero only by rounding and was set to 0.')
+    }
+    // groups: connected sets of lines joined by non-zero r (union–find)
+    const parent = Int32Array.from({ length: n }, (_, i) => i)
+    const find = (x: number): number => {
+      while (parent[x] !== x) x = parent[x] = parent[parent[x]!]!
+      return x
+    }
+    for (const { i, j } of pairs) parent[find(i)] = find(j)
+    groupOf = new Int32Array(n)
+    const members = new Map<number, number[]>()
+    for (let i = 0; i < n; i++) {
+      const g = find(i)
+      groupOf[i] = g
+      if (!members.has(g)) members.set(g, [])
+      members.get(g)!.push(i)
+    }
+    const groups: BudgetCorrelationSummary['groups'] = []
+    for (const list of members.values()) {
+      if (list.length < 2) continue
+      let v = 0
+      let nuMin = Number.POSITIVE_INFINITY
+      for (const i of list) {
+        v += su[i]! * (su[i]! + cross[i]!)
+        nuMin = Math.min(nuMin, nu[i]!)
+      }
+      groups.push({ components: list, dof: Number.isFinite(nuMin) ? nuMin : null, variance: Math.max(0, v) })
+      if (Number.isFinite(nuMin)) {
+        const mixed = new Set(list.map(i => nu[i]!)).size > 1
+        notes.push(
+          `Welch–Satterthwaite: the correlated lines ${list.join(', ')} count as one component with ν = ${nuMin}`
+          + (mixed ? ' (their smallest ν: their degrees of freedom differ, a conservative choice).' : ' (Willink 2007, §4.1.1).'),
+        )
+      }
+    }
+    correlation = { uncorrelatedVariance: uncorrelated, covarianceTerm: covariance, clampedAtZero: clamped, groups, notes }
+  } else if (given) {
+    correlation = { uncorrelatedVariance: variance, covarianceTerm: 0, clampedAtZero: false, groups: [], notes: [] }
+  }
   const uc = Math.sqrt(variance)
-  // Welch–Satterthwaite with contributions normalised by u_c (no under/overflow of the 4th powers)
+  // Welch–Satterthwaite with contributions normalised by u_c (no under/overflow of the 4th powers);
+  // correlated groups enter as one component each (see the module notes)
   let denom = 0
   if (uc > 0) {
+    const done = new Set<number>()
     for (let i = 0; i < n; i++) {
+      if (groupOf !== null && correlation!.groups.some(g => g.components.includes(i))) {
+        const g = groupOf[i]!
+        if (done.has(g)) continue
+        done.add(g)
+        const grp = correlation!.groups.find(x => x.components.includes(i))!
+        if (grp.dof !== null && grp.variance > 0) {
+          const r = grp.variance / variance
+          denom += (r * r) / grp.dof
+        }
+        continue
+      }
       if (Number.isFinite(nu[i]!) && cu[i]! > 0) {
         const r = cu[i]! / uc
         denom += (r * r * r * r) / nu[i]!
@@ -253,12 +466,13 @@ export function evaluateBudget(components: readonly BudgetComponent[], options: 
   const contributions: BudgetContribution[] = []
   for (let i = 0; i < n; i++) {
     const comp = components[i]!
+    const share = cross[i] === 0 ? cu[i]! * cu[i]! : su[i]! * (su[i]! + cross[i]!)
     contributions.push({
       name: comp.name,
       standardUncertainty: u[i]!,
       sensitivity: comp.sensitivity,
       contribution: cu[i]!,
-      percent: variance > 0 ? (100 * cu[i]! * cu[i]!) / variance : 0,
+      percent: variance > 0 ? (100 * share) / variance : 0,
       dof: Number.isFinite(nu[i]!) ? nu[i]! : null,
     })
   }
@@ -270,6 +484,7 @@ export function evaluateBudget(components: readonly BudgetComponent[], options: 
     coverageFactor: k,
     expandedUncertainty: k * uc,
     contributions,
+    ...(correlation ? { correlation } : {}),
   }
 }
 

@@ -22,9 +22,16 @@
  * - `non-binary`: pass if |E| ≤ TL − w; conditional pass if TL − w < |E| ≤ TL; conditional fail if
  *   TL < |E| ≤ TL + w; fail if |E| > TL + w.
  * A value on a limit counts as inside it (within 1e-12 relative, to absorb binary rounding).
+ *
+ * Probability of conformity (JCGM 106:2012, 7.4, for a normal PDF of the error with expectation E and
+ * standard uncertainty u): p_c = Φ((T_U − E)/u) − Φ((T_L − E)/u), here with T_L = −TL and T_U = +TL and
+ * u = U/k ({@link probabilityOfConformity}). It is reported beside the verdict whatever the rule; the
+ * normal PDF is used even when ν_eff is finite (the normal case of JCGM 106 7.4; a scaled t would give
+ * slightly lower probabilities near the limits with few degrees of freedom).
  */
 
 import { EngineInputError } from '../radiometry/errors'
+import { normalIntervalProbability } from './normal'
 
 /** Accuracy specification of an instrument (the API's `spec`); a in %, b in K. */
 export type AccuracySpec =
@@ -83,6 +90,48 @@ export function toleranceLimit(spec: AccuracySpec, readingK: number, percentBasi
   )
 }
 
+/** Input of {@link probabilityOfConformity}; all in the unit of the error (K). */
+export interface ConformityProbabilityInput {
+  /** Best estimate E of the error (or of the property), K. */
+  error: number
+  /** Standard uncertainty u of E, K (≥ 0; u = U/k). */
+  standardUncertainty: number
+  /** Lower tolerance limit T_L, K; null or omitted for none (one-sided upper limit). */
+  lowerLimit?: number | null
+  /** Upper tolerance limit T_U, K; null or omitted for none (one-sided lower limit). */
+  upperLimit?: number | null
+}
+
+/**
+ * Probability that the error lies within the tolerance interval, for a normal PDF with expectation E and
+ * standard deviation u (JCGM 106:2012, 7.4): p_c = Φ((T_U − E)/u) − Φ((T_L − E)/u), with an erfc-based Φ
+ * accurate in relative terms in the tails (./normal). With u = 0 the probability is 1 inside [T_L, T_U]
+ * (limits included) and 0 outside.
+ * @param input - error E (K), standardUncertainty u (K), lowerLimit T_L and upperLimit T_U (K; one may be null)
+ * @returns p_c, dimensionless in [0, 1]
+ * @throws EngineInputError (`error`, `standardUncertainty`, `lowerLimit`, `upperLimit`)
+ * @example probabilityOfConformity({ error: 0.8, standardUncertainty: 0.15, lowerLimit: -1, upperLimit: 1 }) ≈ 0.90879
+ */
+export function probabilityOfConformity(input: ConformityProbabilityInput): number {
+  if (typeof input !== 'object' || input === null) throw new EngineInputError('error', 'input must be an object')
+  const { error: E, standardUncertainty: u } = input
+  if (typeof E !== 'number' || !Number.isFinite(E)) throw new EngineInputError('error', `must be a finite number, got ${String(E)}`)
+  const uu = finiteNonNeg(u, 'standardUncertainty')
+  const limit = (v: unknown, field: string): number | null => {
+    if (v === undefined || v === null) return null
+    if (typeof v !== 'number' || !Number.isFinite(v)) throw new EngineInputError(field, `must be a finite number (or null for no limit), got ${String(v)}`)
+    return v
+  }
+  const lo = limit(input.lowerLimit, 'lowerLimit')
+  const hi = limit(input.upperLimit, 'upperLimit')
+  if (lo === null && hi === null) throw new EngineInputError('upperLimit', 'give at least one tolerance limit')
+  if (lo !== null && hi !== null && !(hi > lo)) throw new EngineInputError('upperLimit', `must be above lowerLimit (${lo}), got ${hi}`)
+  if (uu === 0) return (lo === null || E >= lo) && (hi === null || E <= hi) ? 1 : 0
+  const b = lo === null ? Number.NEGATIVE_INFINITY : (lo - E) / uu
+  const a = hi === null ? Number.POSITIVE_INFINITY : (hi - E) / uu
+  return normalIntervalProbability(b, a)
+}
+
 /** Input of {@link decideConformity}; all in K. */
 export interface DecisionInput {
   /** Error of indication E = reading − reference (or expected reading), K. */
@@ -95,6 +144,13 @@ export interface DecisionInput {
   rule: DecisionRule
   /** Guard-band factor r in w = r·U (default 1; ignored by simple acceptance). */
   guardBandFactor?: number
+  /**
+   * Standard uncertainty u of E, K, for the probability of conformity; when omitted, u = U/k with
+   * `coverageFactor`; with neither, no probability is given.
+   */
+  standardUncertainty?: number
+  /** Coverage factor k of U (> 0), used for u = U/k when `standardUncertainty` is omitted. */
+  coverageFactor?: number
 }
 
 /** Result of a conformity decision. */
@@ -117,6 +173,11 @@ export interface DecisionResult {
   verdict: Verdict
   /** One plain sentence stating the verdict and why. */
   statement: string
+  /**
+   * Probability that the error is within ±TL for a normal PDF (JCGM 106:2012, 7.4), dimensionless; null
+   * when neither standardUncertainty nor coverageFactor was given.
+   */
+  probabilityOfConformity: number | null
 }
 
 const RULE_REFERENCE: Record<DecisionRule, string> = {
@@ -131,9 +192,12 @@ function within(x: number, limit: number): boolean {
 
 /**
  * Applies a decision rule to an error of indication (see the module notes for each rule).
- * @param input - error E (K), expandedUncertainty U (K), tolerance TL (K), rule, guardBandFactor r
- * @returns the rule applied, TL, w, TL − w, the verdict and a statement
- * @throws EngineInputError (`error`, `expandedUncertainty`, `tolerance`, `rule`, `guardBandFactor`)
+ * @param input - error E (K), expandedUncertainty U (K), tolerance TL (K), rule, guardBandFactor r,
+ *   standardUncertainty u (K) or coverageFactor k (for p_c with u = U/k)
+ * @returns the rule applied, TL, w, TL − w, the verdict, a statement and the probability of conformity
+ *   (JCGM 106 7.4; null without u or k)
+ * @throws EngineInputError (`error`, `expandedUncertainty`, `tolerance`, `rule`, `guardBandFactor`,
+ *   `standardUncertainty`, `coverageFactor`)
  * @example decideConformity({ error: 0.8, expandedUncertainty: 0.3, tolerance: 1, rule: 'non-binary' }).verdict === 'conditional-pass'
  */
 export function decideConformity(input: DecisionInput): DecisionResult {
@@ -147,6 +211,13 @@ export function decideConformity(input: DecisionInput): DecisionResult {
   }
   const r = input.guardBandFactor ?? 1
   if (typeof r !== 'number' || !Number.isFinite(r) || r < 0) throw new EngineInputError('guardBandFactor', `must be a finite number ≥ 0, got ${String(r)}`)
+  let u: number | null = null
+  if (input.standardUncertainty !== undefined) u = finiteNonNeg(input.standardUncertainty, 'standardUncertainty')
+  else if (input.coverageFactor !== undefined) {
+    const k = input.coverageFactor
+    if (typeof k !== 'number' || !Number.isFinite(k) || k <= 0) throw new EngineInputError('coverageFactor', `must be a finite number above 0, got ${String(k)}`)
+    u = U / k
+  }
   const w = rule === 'simple-acceptance' ? 0 : r * U
   const a = Math.abs(E)
   const acceptance = TL - w
@@ -180,6 +251,7 @@ export function decideConformity(input: DecisionInput): DecisionResult {
     expandedUncertainty: U,
     verdict,
     statement: `${verdictText[verdict]} (${limitsText}; ${RULE_REFERENCE[rule]}).`,
+    probabilityOfConformity: u === null ? null : probabilityOfConformity({ error: E, standardUncertainty: u, lowerLimit: -TL, upperLimit: TL }),
   }
 }
 
@@ -195,13 +267,18 @@ export interface ConformityInput {
   rule: DecisionRule
   guardBandFactor?: number
   percentBasis?: PercentBasis
+  /** Standard uncertainty u of E, K, for the probability of conformity (else u = U/k with coverageFactor). */
+  standardUncertainty?: number
+  /** Coverage factor k of U, for u = U/k. */
+  coverageFactor?: number
 }
 
 /**
  * Tolerance at the reading from the specification, then the decision ({@link toleranceLimit} +
  * {@link decideConformity}).
- * @param input - spec, readingK (K), error (K), expandedUncertainty (K), rule, guardBandFactor, percentBasis
- * @returns the decision, with the tolerance computed from the specification
+ * @param input - spec, readingK (K), error (K), expandedUncertainty (K), rule, guardBandFactor, percentBasis,
+ *   standardUncertainty (K) or coverageFactor for the probability of conformity
+ * @returns the decision, with the tolerance computed from the specification and p_c (or null)
  * @example evaluateConformity({ spec: { kind: 'greaterOf', a: 1, b: 1 }, readingK: 373.15, error: -0.6,
  *   expandedUncertainty: 0.5, rule: 'guard-band' }).verdict === 'fail' (TL 1 K, acceptance limit 0.5 K)
  */
@@ -215,6 +292,8 @@ export function evaluateConformity(input: ConformityInput): DecisionResult & { p
     tolerance: tl,
     rule: input.rule,
     ...(input.guardBandFactor !== undefined ? { guardBandFactor: input.guardBandFactor } : {}),
+    ...(input.standardUncertainty !== undefined ? { standardUncertainty: input.standardUncertainty } : {}),
+    ...(input.coverageFactor !== undefined ? { coverageFactor: input.coverageFactor } : {}),
   })
   return { ...decision, percentBasis: basis }
 }

@@ -20,7 +20,7 @@ describe('lineDistribution', () => {
     expect(Math.abs(d.halfWidth - 0.05)).toBeLessThan(1e-15)
   })
   it('a Type A mean with ν = n − 1 becomes a scaled t (JCGM 101 6.4.9); ν = ∞ a Gaussian', () => {
-    expect(lineDistribution(line({ distribution: 'standard', dof: 4, standardUncertainty: 0.07 }), 0, 1)).toMatchObject({ distribution: 'student-t', scale: 0.07, dof: 4 })
+    expect(lineDistribution(line({ type: 'A', distribution: 'standard', dof: 4, standardUncertainty: 0.07 }), 0, 1)).toMatchObject({ distribution: 'student-t', scale: 0.07, dof: 4 })
     expect(lineDistribution(line({ distribution: 'standard', dof: null }), 0, 1)).toMatchObject({ distribution: 'normal', standardUncertainty: 0.1 })
   })
 })
