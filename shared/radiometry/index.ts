@@ -32,3 +32,11 @@ export {
   type ReadingSensitivities,
 } from './reading'
 export * from './sakumaHattori'
+export {
+  RATIO_MODEL_INPUTS,
+  expectedRatioReading,
+  ratioReadingModel,
+  type RatioReadingInput,
+  type RatioReading,
+  type RatioReadingSensitivities,
+} from './ratio'
