@@ -40,3 +40,15 @@ export {
   type RatioReading,
   type RatioReadingSensitivities,
 } from './ratio'
+export {
+  CALIBRATION_EQUATION_MODELS,
+  fitCalibrationEquation,
+  calibrationEquationAtReading,
+  calibrationEquationAtReference,
+  type CalibrationPointInput,
+  type CalibrationEquationModel,
+  type CalibrationEquationInput,
+  type CalibrationResidual,
+  type CalibrationEquation,
+  type CalibrationEquationValue,
+} from './calibrationEquation'
