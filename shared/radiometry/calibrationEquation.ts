@@ -11,9 +11,9 @@
  * reference and reading budgets combined); the readings R_i are taken as exact. Weighted least squares
  * minimises rᵀV_y⁻¹r, r_i = T_i − f(R_i; p), V_y = D·K·D with D = diag(u_i) and K the points'
  * correlation matrix (identity unless given: a shared reference thermometer or source makes the points'
- * errors correlated). This is the generalised least-squares estimate of JCGM 102:2011 (multivariate
- * models; 9.3 on calibration curves, recalled from memory) and, for uncorrelated points, ordinary
- * weighted least squares with weights 1/u_i².
+ * errors correlated). This is the generalised least-squares estimate (JCGM 102:2011 treats such
+ * multivariate models; recalled from memory) and, for uncorrelated points, ordinary weighted least
+ * squares with weights 1/u_i².
  *
  * Two forms of f:
  * - `'sakuma-hattori'` (default; 3 parameters A, B, C). The reading is turned back into the signal the
@@ -362,9 +362,9 @@ function validateCorrelation(K: unknown, n: number): number[][] {
  * @throws EngineInputError naming `points`, `points[i].referenceTemperatureK`, `points[i].readingK`,
  *   `points[i].expandedUncertaintyK`, `points[i].coverageFactor`, `model`, `band…`, `correlation…`,
  *   `coverageFactor`, `constants`
- * @example three points of a 0.8–1.0 µm pyrometer, fit then
- *   calibrationEquationAtReading(eq, 1000).correctionK ≈ the interpolated correction at a 1000 K reading
- *   (see tests/unit/radiometry/calibrationEquation.test.ts for checked values)
+ * @example five as-left points of a 0.8–1.0 µm pyrometer, 873–1673 K (the tests' case):
+ *   calibrationEquationAtReading(fitCalibrationEquation({ points, band }), 1173.15)
+ *   → correctionK ≈ 1.2909 K, standardUncertaintyK ≈ 0.7658 K (scipy curve_fit gives the same)
  */
 export function fitCalibrationEquation(input: CalibrationEquationInput): CalibrationEquation {
   if (typeof input !== 'object' || input === null) throw new EngineInputError('points', 'calibration equation input must be an object')

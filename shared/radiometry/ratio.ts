@@ -312,7 +312,7 @@ const CORE = new Float64Array(3)
  *   `sourceTemperatureK`, `sourceEmissivity1`, `sourceEmissivity2`, `reflectedTemperatureK`,
  *   `emissivityRatioSetting`, `constants`; `sourceTemperatureK` also when T_R is outside 50 K to 5000 K
  * @example grey source ε_1 = ε_2 = 0.9 at 1273.15 K, T_w = 296.15 K, bands 0.95–1.00 and 1.00–1.05 µm, k = 1:
- *   expectedRatioReading(...).expectedReadingK ≈ 1273.15 K (reflection at 296 K adds ~1e-14 K);
+ *   expectedRatioReading(...).expectedReadingK ≈ 1273.15 K (at 1 µm the 296 K surroundings add ~1e-16 of the source's radiance);
  *   with ε_1 = 0.90, ε_2 = 0.85 and k = 1 it reads ≈ 1417.20 K (see the tests)
  */
 export function expectedRatioReading(input: RatioReadingInput): RatioReading {
