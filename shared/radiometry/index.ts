@@ -45,3 +45,23 @@ export {
   type RadianceTemperatureReading,
   type RadianceTemperatureSensitivities,
 } from './radianceTemperature'
+export {
+  RATIO_MODEL_INPUTS,
+  expectedRatioReading,
+  ratioReadingModel,
+  type RatioReadingInput,
+  type RatioReading,
+  type RatioReadingSensitivities,
+} from './ratio'
+export {
+  CALIBRATION_EQUATION_MODELS,
+  fitCalibrationEquation,
+  calibrationEquationAtReading,
+  calibrationEquationAtReference,
+  type CalibrationPointInput,
+  type CalibrationEquationModel,
+  type CalibrationEquationInput,
+  type CalibrationResidual,
+  type CalibrationEquation,
+  type CalibrationEquationValue,
+} from './calibrationEquation'
