@@ -6,3 +6,4 @@
  */
 export { EngineInputError } from '../radiometry/errors'
 export * from './proficiency'
+export * from './controlChart'
