@@ -7,3 +7,4 @@
 export { EngineInputError } from '../radiometry/errors'
 export * from './proficiency'
 export * from './controlChart'
+export * from './intervals'
