@@ -163,7 +163,7 @@ export function staircaseInterval(input: StaircaseInput): StaircaseResult {
     exactMonths: exact,
     proposedMonths: whole,
     limitedBy,
-    reason: `${why}, from ${current} to ${whole} months${limitText}.`,
+    reason: action === 'keep' && whole === current ? `${why} at ${current} months.` : `${why}, from ${current} to ${whole} months${limitText}.`,
     method: METHOD_STAIRCASE,
   }
 }

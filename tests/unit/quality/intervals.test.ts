@@ -58,9 +58,11 @@ describe('staircase (ILAC-G24 method 1)', () => {
     expect(staircaseInterval({ ...base, fractionOfTolerance: 0.8 })).toMatchObject({ action: 'lengthen' }) // on the threshold: within
     const keep = staircaseInterval({ ...base, fractionOfTolerance: 0.85 })
     expect(keep).toMatchObject({ action: 'keep', proposedMonths: 12 })
-    expect(keep.reason).toBe('Found in tolerance, but the largest as-found error used 85 % of the tolerance, more than 80 %: interval kept, from 12 to 12 months.')
+    expect(keep.reason).toBe('Found in tolerance, but the largest as-found error used 85 % of the tolerance, more than 80 %: interval kept at 12 months.')
     expect(staircaseInterval({ ...base, fractionOfTolerance: 0.85, lengthenWithinFraction: 0.9 }).action).toBe('lengthen')
     expect(staircaseInterval({ ...base, foundInTolerance: false, fractionOfTolerance: 1.3 }).action).toBe('shorten')
+    // kept, but an interval above the longest allowed is still brought down to it
+    expect(staircaseInterval({ ...base, currentMonths: 30, fractionOfTolerance: 0.9 })).toMatchObject({ action: 'keep', proposedMonths: 24, limitedBy: 'maxMonths' })
     // guard-banded rules may call a point inside the tolerance "not in tolerance": that is allowed
     expect(staircaseInterval({ ...base, foundInTolerance: false, fractionOfTolerance: 0.95 }).action).toBe('shorten')
   })
