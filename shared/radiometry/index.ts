@@ -32,3 +32,4 @@ export {
   type ReadingSensitivities,
 } from './reading'
 export * from './sakumaHattori'
+export { SignalTable, prepareSignalTable, SIGNAL_TABLE_TOLERANCE, type ReadingModelOptions } from './signalTable'
