@@ -173,9 +173,12 @@ export function upperIntegral3(x: number): number {
 export function bandIntegral3(xa: number, xb: number): number {
   const qa = incomplete3(xa)
   const qb = incomplete3(xb)
-  if (xb >= PANEL_SWITCH_X) return qb - qa
-  if (xa < PANEL_SWITCH_X) return qa - qb
-  return Z3 - qb - qa
+  // qa, qb are G (∫ₓ^∞) at or above the switch and H (∫₀ˣ) below it, so D is one of
+  // G(xb) − G(xa), H(xa) − H(xb) or π⁴/15 − H(xb) − G(xa); written without branches, which
+  // temperatures scattered across the switch would mispredict
+  const fa = +(xa >= PANEL_SWITCH_X)
+  const fb = +(xb >= PANEL_SWITCH_X)
+  return Z3 * (fa - fb) + ((2 * fb - 1) * qb - (2 * fa - 1) * qa)
 }
 
 /**

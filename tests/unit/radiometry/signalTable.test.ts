@@ -12,7 +12,7 @@ import {
   type Band,
   type TabulatedBand,
 } from '../../../shared/radiometry'
-import { runMonteCarlo, Xoshiro128, type MonteCarloInput } from '../../../shared/uncertainty'
+import { runMonteCarlo, runMonteCarloChunk, Xoshiro128, type MonteCarloInput } from '../../../shared/uncertainty'
 
 // Inputs only: the demo's invented thermopile responsivity (server/utils/seedRegisters.ts), 33 points
 // 0.25 µm apart and a 121-point version 1/15 µm apart. The reference everywhere is the exact closed-form
@@ -188,6 +188,22 @@ describe('reading model through a signal table', () => {
     const x = [373.15, 0.95, 296.15, 297.15, 0.97]
     expect(readingModel(LW, undefined, { temperatureRangeK: { min: 250, max: 500 } })(x)).toBe(readingModel(LW)(x))
     expect(readingModel(DEMO33, undefined, { temperatureRangeK: { min: 6000, max: 7000 } })(x)).toBe(readingModel(DEMO33)(x))
+  })
+
+  it('chunks run on separate models (as on worker threads) join into exactly one run', () => {
+    // each bin's panels depend only on the band and the bin, not on which temperatures came first
+    const inputs: MonteCarloInput[] = [
+      { name: 'T_s', distribution: 'normal', value: 773.15, standardUncertainty: 2 },
+      { name: 'ε_s', distribution: 'rectangular', value: 0.9, halfWidth: 0.02 },
+      { name: 'T_w', distribution: 'rectangular', value: 296.15, halfWidth: 3 },
+      { name: 'T_d', distribution: 'rectangular', value: 300.15, halfWidth: 3 },
+      { name: 'ε_i', distribution: 'constant', value: 0.95 },
+    ]
+    const model = (): ((x: ArrayLike<number>) => number) => readingModel(DEMO33, undefined, { temperatureRangeK: { min: 50, max: 5000 } })
+    const whole = runMonteCarloChunk(model(), inputs, 3, 0, 3000)
+    const second = runMonteCarloChunk(model(), inputs, 3, 1700, 3000) // built from the other end first
+    const first = runMonteCarloChunk(model(), inputs, 3, 0, 1700)
+    expect(Array.from(first).concat(Array.from(second))).toEqual(Array.from(whole))
   })
 
   it('a Monte Carlo run gives the same summary as the exact model (JCGM 101 trials, same seed)', () => {
