@@ -13,8 +13,10 @@
  *
  * Methods:
  * - Rectangular band: S = (c1L/c2⁴)·T⁴·∫ t³/(eᵗ−1) dt between t = c2/(λ2T) and c2/(λ1T), which with
- *   CODATA 2018 constants is (σT⁴/π)·[F(0→λ2T) − F(0→λ1T)], evaluated by the Widger–Woodall series
- *   (Bull. Am. Meteorol. Soc. 57:1217, 1976) and a Bernoulli power series (see ./series).
+ *   CODATA 2018 constants is (σT⁴/π)·[F(0→λ2T) − F(0→λ1T)]. The incomplete integrals come from
+ *   piecewise Chebyshev polynomials (./bandIntegral) built at load time from the Widger–Woodall
+ *   series (Bull. Am. Meteorol. Soc. 57:1217, 1976) and a Bernoulli power series (./series), and
+ *   agreeing with them to ~1e-15: no loop and no exponential per call below c2/(λT) = 40.
  * - Tabulated band (piecewise-linear R between table points, zero outside the table): on each segment
  *   R = rᵢ + βᵢ(λ − λᵢ), so ∫R L dλ needs only ∫L dλ and ∫λ L dλ over the segment; the latter is
  *   (c1L/c2³)·T³·∫ t²/(eᵗ−1) dt. Both have the same kind of series, so the tabulated band is computed
@@ -468,8 +470,9 @@ export function bandRadianceAndDerivativeUnchecked(
 
 /**
  * Band radiance (the ideal instrument signal) S(T) = ∫ R(λ) L(λ,T) dλ of a blackbody at T.
- * Rectangular band: exact Widger–Woodall series, ≈ 0.1 µs per call. Tabulated band: closed-form
- * series per linear segment (pass a {@link PreparedBand} to avoid re-validating the table per call).
+ * Rectangular band: closed form (see the module notes), ≈ 30–45 ns per call with the checks.
+ * Tabulated band: closed-form series per linear segment (pass a {@link PreparedBand} to avoid
+ * re-validating the table per call; for many temperatures in a range see ./signalTable).
  * @param band - rectangular band (µm) or tabulated responsivity, or a PreparedBand
  * @param temperatureK - blackbody temperature T, K (> 0)
  * @param constants - radiation constants (default CODATA 2018)
