@@ -31,6 +31,7 @@ import {
   expectedReadingK,
   INVERSION_RANGE_K,
   prepareBand,
+  prepareSignalTable,
   readingModel,
   requireTemperature,
   resolveConstants,
@@ -40,6 +41,7 @@ import {
   type PreparedBand,
   type RadiationConstantsChoice,
   type ReadingInput,
+  type SignalTable,
   type TabulatedBand,
 } from '../../shared/radiometry'
 import { rectangularRadianceSeries } from '../../shared/radiometry/planck'
@@ -148,6 +150,16 @@ function monoNew(band: Band, temps: Float64Array, reps: number): number {
 function monoPrevious(band: Band, temps: Float64Array, reps: number): number {
   let s = 0
   for (let r = 0; r < reps; r++) for (let i = 0; i < temps.length; i++) s += previousBandRadiance(band, temps[i]!)
+  return s
+}
+function tableLoop(t: SignalTable, temps: Float64Array, reps: number): number {
+  let s = 0
+  for (let r = 0; r < reps; r++) for (let i = 0; i < temps.length; i++) s += t.signal(temps[i]!)
+  return s
+}
+function exactTabLoop(band: PreparedBand, temps: Float64Array, reps: number): number {
+  let s = 0
+  for (let r = 0; r < reps; r++) for (let i = 0; i < temps.length; i++) s += bandRadiance(band, temps[i]!)
   return s
 }
 interface MixedCalls {
@@ -289,6 +301,18 @@ function runBandSections(quick: boolean, print: boolean, mcInputs: MonteCarloInp
   const mixedAllPrev = timeLoop((r) => mixedPrevious(mAll, r), N, dur)
   rows.push(['all six interleaved', '', '', '', fmt(mixedAll), `${fmt(mixedAllPrev)} (×${(mixedAllPrev / mixedAll).toFixed(2)})`, mixedAll <= BAND_TARGET ? 'met' : 'MISSED', ''])
   out.push({ name: 'band radiance, six bands interleaved, mixed use', seconds: mixedAll, targetSeconds: BAND_TARGET, referenceSeconds: mixedAllPrev })
+  {
+    // the benchmark's 7-point tabulated band: a SignalTable over 250–750 K against the exact closed form
+    const tab = prepareBand({ kind: 'tabulated', points: [[7.5, 0], [8, 0.4], [9, 0.95], [11, 1], [13, 0.9], [14, 0.3], [14.5, 0]] })
+    const tt = Float64Array.from({ length: N }, () => 250 + 500 * rng.nextDouble())
+    const st = prepareSignalTable(tab, 250, 750).buildAll()
+    const viaTable = timeLoop((r) => tableLoop(st, tt, r), N, dur)
+    const exact = timeLoop((r) => exactTabLoop(tab, tt, r), N, dur)
+    let diff = 0
+    for (let i = 0; i < 512; i++) diff = Math.max(diff, Math.abs(st.signal(tt[i]!) / bandRadiance(tab, tt[i]!) - 1))
+    rows.push(['7-point table via SignalTable', '250–750 K', fmt(viaTable), `${fmt(exact)} exact (×${(exact / viaTable).toFixed(0)})`, '—', '—', viaTable <= BAND_TARGET ? 'met' : 'MISSED', `${diff.toExponential(1)} (to exact)`])
+    out.push({ name: 'tabulated band radiance (7 points) via SignalTable', seconds: viaTable, targetSeconds: BAND_TARGET, referenceSeconds: exact, referenceDifference: diff })
+  }
   if (print) {
     console.log(`\nBand radiance per bench band, ns per evaluation (target ≤ ${fmt(BAND_TARGET)}); previous = same checks + series per call; load ${load()}`)
     table(['band', 'temperatures', 'mono', 'mono previous', 'mixed', 'mixed previous', 'target', 'rel. diff. to previous'], rows)
