@@ -65,3 +65,4 @@ export {
   type CalibrationEquation,
   type CalibrationEquationValue,
 } from './calibrationEquation'
+export { SignalTable, prepareSignalTable, SIGNAL_TABLE_TOLERANCE, type ReadingModelOptions } from './signalTable'

@@ -13,8 +13,10 @@
  *
  * Methods:
  * - Rectangular band: S = (c1L/c2⁴)·T⁴·∫ t³/(eᵗ−1) dt between t = c2/(λ2T) and c2/(λ1T), which with
- *   CODATA 2018 constants is (σT⁴/π)·[F(0→λ2T) − F(0→λ1T)], evaluated by the Widger–Woodall series
- *   (Bull. Am. Meteorol. Soc. 57:1217, 1976) and a Bernoulli power series (see ./series).
+ *   CODATA 2018 constants is (σT⁴/π)·[F(0→λ2T) − F(0→λ1T)]. The incomplete integrals come from
+ *   piecewise Chebyshev polynomials (./bandIntegral) built at load time from the Widger–Woodall
+ *   series (Bull. Am. Meteorol. Soc. 57:1217, 1976) and a Bernoulli power series (./series), and
+ *   agreeing with them to ~1e-15: no loop and no exponential per call below c2/(λT) = 40.
  * - Tabulated band (piecewise-linear R between table points, zero outside the table): on each segment
  *   R = rᵢ + βᵢ(λ − λᵢ), so ∫R L dλ needs only ∫L dλ and ∫λ L dλ over the segment; the latter is
  *   (c1L/c2³)·T³·∫ t²/(eᵗ−1) dt. Both have the same kind of series, so the tabulated band is computed
@@ -37,8 +39,9 @@
  * vacuum band [n·λ1, n·λ2].
  */
 
-import { resolveConstants, type RadiationConstants, type RadiationConstantsChoice } from './constants'
+import { CODATA_2018, resolveConstants, type RadiationConstants, type RadiationConstantsChoice } from './constants'
 import { EngineInputError, requireTemperature } from './errors'
+import { bandIntegral3, bandIntegral3WithBracket } from './bandIntegral'
 import { between2, between3, between3WithBracket, boundary3, boundary4, headPow3, SERIES_SWITCH_X, tailExp3, Z3 } from './series'
 
 /**
@@ -381,18 +384,47 @@ export function totalRadiance(temperatureK: number, constants?: RadiationConstan
 // ---------------------------------------------------------------------------------------------
 // Band radiance: internal evaluators (validated inputs, no allocation)
 
-/** @internal Rectangular band radiance, W·m⁻²·sr⁻¹. */
+/**
+ * @internal Rectangular band radiance, W·m⁻²·sr⁻¹, from the piecewise-polynomial band integral of
+ * ./bandIntegral (≈ 2× faster than the series; same accuracy to a few ulp).
+ */
 export function rectangularRadiance(l1: number, l2: number, T: number, c: RadiationConstants): number {
+  const xa = c.c2UmK / (l1 * T)
+  const xb = c.c2UmK / (l2 * T)
+  const t2 = T * T
+  return c.bandCoefficient * t2 * t2 * bandIntegral3(xa, xb)
+}
+
+/**
+ * @internal Rectangular band radiance and dS/dT together (shares the panel look-ups), written to
+ * out[0], out[1].
+ */
+export function rectangularRadianceAndDerivative(
+  l1: number,
+  l2: number,
+  T: number,
+  c: RadiationConstants,
+  out: Float64Array,
+): void {
+  bandIntegral3WithBracket(c.c2UmK / (l1 * T), c.c2UmK / (l2 * T), out)
+  const k = c.bandCoefficient * T * T * T
+  out[0] = k * T * out[0]!
+  out[1] = k * out[1]!
+}
+
+/**
+ * @internal The previous rectangular evaluator, kept for comparison in tests and the engine benchmark
+ * only: the Widger–Woodall and Bernoulli series of ./series summed at every call. W·m⁻²·sr⁻¹.
+ */
+export function rectangularRadianceSeries(l1: number, l2: number, T: number, c: RadiationConstants): number {
   const xa = c.c2UmK / (l1 * T)
   const xb = c.c2UmK / (l2 * T)
   const t2 = T * T
   return c.bandCoefficient * t2 * t2 * between3(xa, xb)
 }
 
-/**
- * @internal Rectangular band radiance and dS/dT together (shares the series), written to out[0], out[1].
- */
-export function rectangularRadianceAndDerivative(
+/** @internal The previous S and dS/dT evaluator by the series (tests and benchmark only), into out[0], out[1]. */
+export function rectangularRadianceAndDerivativeSeries(
   l1: number,
   l2: number,
   T: number,
@@ -518,8 +550,9 @@ export function bandRadianceAndDerivativeUnchecked(
 
 /**
  * Band radiance (the ideal instrument signal) S(T) = ∫ R(λ) L(λ,T) dλ of a blackbody at T.
- * Rectangular band: exact Widger–Woodall series, ≈ 0.1 µs per call. Tabulated band: closed-form
- * series per linear segment (pass a {@link PreparedBand} to avoid re-validating the table per call).
+ * Rectangular band: closed form (see the module notes), ≈ 30–45 ns per call with the checks.
+ * Tabulated band: closed-form series per linear segment (pass a {@link PreparedBand} to avoid
+ * re-validating the table per call; for many temperatures in a range see ./signalTable).
  * @param band - rectangular band (µm) or tabulated responsivity, or a PreparedBand
  * @param temperatureK - blackbody temperature T, K (> 0)
  * @param constants - radiation constants (default CODATA 2018)
@@ -528,6 +561,17 @@ export function bandRadianceAndDerivativeUnchecked(
  * @example bandRadiance({ kind: 'rectangular', lambda1Um: 8, lambda2Um: 14 }, 373.15) ≈ 136.78 W·m⁻²·sr⁻¹
  */
 export function bandRadiance(band: Band | PreparedBand, temperatureK: number, constants?: RadiationConstantsChoice): number {
+  // fast path: a valid rectangular band in vacuum (plain or prepared) at a valid temperature;
+  // anything else (wavelengths in air too) goes through the full checks below, which name the field at fault
+  if (typeof band === 'object' && band !== null && band.kind === 'rectangular') {
+    const l1 = band.lambda1Um
+    const l2 = band.lambda2Um
+    if (typeof l1 === 'number' && typeof l2 === 'number' && typeof temperatureK === 'number' &&
+      l1 > 0 && l2 > l1 && l2 < Infinity && temperatureK > 0 && temperatureK < Infinity &&
+      (band as { medium?: unknown }).medium === undefined && (band as { refractiveIndex?: unknown }).refractiveIndex === undefined) {
+      return rectangularRadiance(l1, l2, temperatureK, constants === undefined ? CODATA_2018 : resolveConstants(constants))
+    }
+  }
   const b = checkedBand(band)
   requireTemperature(temperatureK, 'temperatureK')
   return bandRadianceUnchecked(b, temperatureK, resolveConstants(constants))
@@ -550,6 +594,16 @@ function checkedBand(band: Band | PreparedBand): Band | PreparedBand {
  * @example bandRadianceDerivative({ kind: 'rectangular', lambda1Um: 8, lambda2Um: 14 }, 300) ≈ 0.8378 W·m⁻²·sr⁻¹·K⁻¹
  */
 export function bandRadianceDerivative(band: Band | PreparedBand, temperatureK: number, constants?: RadiationConstantsChoice): number {
+  if (typeof band === 'object' && band !== null && band.kind === 'rectangular') {
+    const l1 = band.lambda1Um
+    const l2 = band.lambda2Um
+    if (typeof l1 === 'number' && typeof l2 === 'number' && typeof temperatureK === 'number' &&
+      l1 > 0 && l2 > l1 && l2 < Infinity && temperatureK > 0 && temperatureK < Infinity &&
+      (band as { medium?: unknown }).medium === undefined && (band as { refractiveIndex?: unknown }).refractiveIndex === undefined) {
+      rectangularRadianceAndDerivative(l1, l2, temperatureK, constants === undefined ? CODATA_2018 : resolveConstants(constants), SCRATCH)
+      return SCRATCH[1]!
+    }
+  }
   const b = checkedBand(band)
   requireTemperature(temperatureK, 'temperatureK')
   bandRadianceAndDerivativeUnchecked(b, temperatureK, resolveConstants(constants), SCRATCH)

@@ -96,3 +96,15 @@ describe('constants stated and chosen', () => {
     expect(resolveConstants('ITS-90').c2).toBe(0.014388)
   })
 })
+
+describe('band radiance of a band in air, through the public functions', () => {
+  it('bandRadiance and bandRadianceDerivative convert air wavelengths to vacuum (λ_vac = n·λ_air)', () => {
+    // Definition of the conversion (the band's own documentation); n = 1.00028 for standard air.
+    const n = 1.00028
+    const air = { kind: 'rectangular', lambda1Um: 8, lambda2Um: 14, medium: 'air' } as const
+    const vac = { kind: 'rectangular', lambda1Um: 8 * n, lambda2Um: 14 * n } as const
+    expect(Math.abs(bandRadiance(air, 373.15) / bandRadiance(vac, 373.15) - 1)).toBeLessThan(1e-14)
+    expect(Math.abs(bandRadianceDerivative(air, 373.15) / bandRadianceDerivative(vac, 373.15) - 1)).toBeLessThan(1e-14)
+    expect(Math.abs(bandRadiance(air, 373.15) / bandRadiance({ kind: 'rectangular', lambda1Um: 8, lambda2Um: 14 }, 373.15) - 1)).toBeGreaterThan(1e-5)
+  })
+})
