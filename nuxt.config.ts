@@ -14,6 +14,11 @@ function monteCarloWorkerSource(): string {
     target: 'node20',
     write: false,
     logLevel: 'silent',
+    // The same aliases the app and the scripts use (package.json "imports").
+    alias: {
+      '#shared': fileURLToPath(new URL('./shared', import.meta.url)),
+      '#server': fileURLToPath(new URL('./server', import.meta.url)),
+    },
   })
   return result.outputFiles[0]!.text
 }
@@ -60,7 +65,8 @@ export default defineNuxtConfig({
     // Hourly; the job itself checks the send hour in the lab's time zone (MailSettings).
     scheduledTasks: { '5 * * * *': ['reminders:daily'] },
     virtual: {
-      '#bandlight/mc-worker': () => `export default ${JSON.stringify(monteCarloWorkerSource())}`,
+      // As base64: the build's text replacements (e.g. `typeof window`) must not reach into the worker's code.
+      '#bandlight/mc-worker': () => `export default Buffer.from(${JSON.stringify(Buffer.from(monteCarloWorkerSource()).toString('base64'))}, 'base64').toString('utf8')`,
     },
   },
   typescript: {

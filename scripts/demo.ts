@@ -9,8 +9,8 @@ import fs from 'node:fs'
 import path from 'node:path'
 import { startMailSink, type MailSink } from './lib/mailSink'
 import { buildIsStale, run, startServer } from './lib/server'
-import { DEFAULT_DATABASE_URL } from '../server/utils/config'
-import { databasePath } from '../server/utils/db'
+import { DEFAULT_DATABASE_URL } from '#server/utils/config'
+import { databasePath } from '#server/utils/db'
 
 const port = Number(process.env.PORT) || 3000
 const databaseUrl = process.env.DATABASE_URL || DEFAULT_DATABASE_URL
@@ -41,7 +41,9 @@ if (!process.env.SMTP_URL) {
   mailEnv.BANDLIGHT_MAILBOX_DIR = mailbox
 }
 
-const env = { ...process.env, DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, BANDLIGHT_SEED: 'demo', ...mailEnv }
+const env = { ...process.env, DATABASE_URL: databaseUrl, NUXT_SESSION_PASSWORD: sessionPassword, ...mailEnv }
+const seeded = await run(process.execPath, ['--import', 'tsx', 'scripts/seed.ts'], env)
+if (seeded !== 0) process.exit(seeded)
 const server = await startServer(env, port)
 
 console.log(`

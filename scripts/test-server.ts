@@ -1,6 +1,6 @@
 /**
  * Runs the API and browser tests against one built server on a free port with a
- * temporary database seeded with the demo scenario, and a local mail server on another free
+ * temporary database seeded with the demo scenario (scripts/seed.ts, before the server starts), and a local mail server on another free
  * port whose messages land in <temp dir>/mailbox (BANDLIGHT_MAILBOX_DIR, also given to the
  * tests). `npm test` builds first.
  */
@@ -24,13 +24,13 @@ const env = {
   ...process.env,
   DATABASE_URL: `sqlite:${path.join(dir, 'test.sqlite')}`,
   NUXT_SESSION_PASSWORD: crypto.randomBytes(32).toString('hex'),
-  BANDLIGHT_SEED: 'demo',
   TRUST_PROXY: '1',
   BANDLIGHT_DATA_DIR: path.join(dir, 'files'),
   SMTP_URL: `smtp://127.0.0.1:${sink.port}`,
   BANDLIGHT_MAILBOX_DIR: mailbox,
   MAIL_SEND_INTERVAL_MS: '500',
 }
+if ((await run(process.execPath, ['--import', 'tsx', 'scripts/seed.ts'], env)) !== 0) process.exit(1)
 const server = await startServer(env, port, { quiet: true })
 let code = 1
 try {

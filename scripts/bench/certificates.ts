@@ -5,8 +5,8 @@
  * build (fonts parsed) apart, then the median and mean of the following builds. Target ≤ 150 ms.
  */
 import { fileURLToPath } from 'node:url'
-import { certificateFonts, certificatePdf } from '../../server/utils/certificatePdf'
-import { sampleCertificateData } from '../../server/utils/certificateSample'
+import { certificateFonts, certificatePdf } from '#server/services/certificates/pdf'
+import { sampleCertificateData } from '#server/services/certificates/sample'
 
 export interface CertificatesBenchResult {
   builds: number

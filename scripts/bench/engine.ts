@@ -43,11 +43,11 @@ import {
   type ReadingInput,
   type SignalTable,
   type TabulatedBand,
-} from '../../shared/radiometry'
-import { rectangularRadianceSeries } from '../../shared/radiometry/planck'
-import { normalizeResponsivity } from '../../shared/registers/responsivity'
-import { evaluateBudget, runMonteCarlo, runMonteCarloChunk, Xoshiro128, type BudgetComponent, type MonteCarloInput } from '../../shared/uncertainty'
-import { ENGINE_VERSION } from '../../shared/engine'
+} from '#shared/radiometry'
+import { rectangularRadianceSeries } from '#shared/radiometry/planck'
+import { normalizeResponsivity } from '#shared/registers/responsivity'
+import { evaluateBudget, runMonteCarlo, runMonteCarloChunk, Xoshiro128, type BudgetComponent, type MonteCarloInput } from '#shared/uncertainty'
+import { ENGINE_VERSION } from '#shared/engine'
 
 /** One benchmark line. */
 export interface BenchResult {
@@ -116,7 +116,7 @@ function fmt(s: number): string {
 
 // --- band radiance per bench band, previous implementation, scipy, tabulated Monte Carlo -------
 
-/** The demo instrument models' bands and ranges (server/utils/seedRegisters.ts), K. */
+/** The demo instrument models' bands and ranges (scripts/demo-data/registers.ts), K. */
 const BENCH_BANDS = [
   { name: '8–14 µm', l1: 8, l2: 14, minK: 243.15, maxK: 823.15 },
   { name: '3.8–4.0 µm', l1: 3.8, l2: 4.0, minK: 573.15, maxK: 1573.15 },
@@ -209,7 +209,7 @@ function timeLoop(run: (reps: number) => number, evalsPerRep: number, minSeconds
   return times[1]! / (reps * evalsPerRep)
 }
 
-/** The demo's invented thermopile responsivity (same formula as server/utils/seedRegisters.ts), normalised as stored. */
+/** The demo's invented thermopile responsivity (same formula as scripts/demo-data/registers.ts), normalised as stored. */
 function demoThermopile(step: number): TabulatedBand {
   const points: [number, number][] = []
   for (let l = 7.0; l <= 15.0001; l += step) {

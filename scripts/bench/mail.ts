@@ -12,7 +12,7 @@ import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import type { CreationAttributes } from 'sequelize'
 // Type only: the module itself is imported after DATABASE_URL is set.
-import type { Instrument as InstrumentRow } from '../../server/models/Instrument'
+import type { Instrument as InstrumentRow } from '#server/models/Instrument'
 
 export interface MailBenchResult {
   instruments: number
@@ -31,13 +31,13 @@ export async function runMailBench(opts: { quick?: boolean, rows?: number } = {}
   const previous = { db: process.env.DATABASE_URL, secret: process.env.MAIL_TOKEN_SECRET }
   process.env.DATABASE_URL = `sqlite:${path.join(dir, 'bench.sqlite')}`
   process.env.MAIL_TOKEN_SECRET ||= 'bench-only-secret-for-unsubscribe-links'
-  const { sequelize, closeDatabase } = await import('../../server/utils/db')
-  const { migrate } = await import('../../server/utils/migrate')
-  await import('../../server/models')
-  const { Organization } = await import('../../server/models/Organization')
-  const { Contact } = await import('../../server/models/Contact')
-  const { Instrument } = await import('../../server/models/Instrument')
-  const { previewReminders, runReminderScan } = await import('../../server/utils/reminders')
+  const { sequelize, closeDatabase } = await import('#server/utils/db')
+  const { migrate } = await import('#server/utils/migrate')
+  await import('#server/models')
+  const { Organization } = await import('#server/models/Organization')
+  const { Contact } = await import('#server/models/Contact')
+  const { Instrument } = await import('#server/models/Instrument')
+  const { previewReminders, runReminderScan } = await import('#server/services/reminders/reminders')
   try {
     await migrate()
     const orgs = await Organization.bulkCreate(Array.from({ length: 50 }, (_, i) => ({ name: `Bench Customer ${i + 1}`, contactEmails: [] })))

@@ -11,7 +11,7 @@ import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import type { CreationAttributes } from 'sequelize'
 // Type only: the module itself is imported after DATABASE_URL is set.
-import type { Instrument as InstrumentRow } from '../../server/models/Instrument'
+import type { Instrument as InstrumentRow } from '#server/models/Instrument'
 
 export interface RegistersBenchResult {
   rows: number
@@ -25,11 +25,11 @@ export async function runRegistersBench(opts: { quick?: boolean, rows?: number }
   const previous = process.env.DATABASE_URL
   process.env.DATABASE_URL = `sqlite:${path.join(dir, 'bench.sqlite')}`
   // Imported after DATABASE_URL is set: db.ts opens the database on import.
-  const { sequelize, closeDatabase } = await import('../../server/utils/db')
-  const { migrate } = await import('../../server/utils/migrate')
-  const { Organization } = await import('../../server/models/Organization')
-  const { Instrument } = await import('../../server/models/Instrument')
-  const { queryInstruments } = await import('../../server/utils/instrumentQuery')
+  const { sequelize, closeDatabase } = await import('#server/utils/db')
+  const { migrate } = await import('#server/utils/migrate')
+  const { Organization } = await import('#server/models/Organization')
+  const { Instrument } = await import('#server/models/Instrument')
+  const { queryInstruments } = await import('#server/services/instruments/query')
   try {
     await migrate()
     const orgs = await Organization.bulkCreate(Array.from({ length: 50 }, (_, i) => ({ name: `Bench Customer ${i + 1}`, contactEmails: [] })))

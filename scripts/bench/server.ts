@@ -7,7 +7,7 @@ import crypto from 'node:crypto'
 import fs from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
-import { SERVER_ENTRY, freePort, startServer } from '../lib/server'
+import { SERVER_ENTRY, freePort, run, startServer } from '../lib/server'
 
 interface Row { what: string, value: string, target: string }
 
@@ -86,12 +86,13 @@ export async function runServerBench(opts: { quick?: boolean } = {}): Promise<vo
   }
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-bench-'))
   const port = await freePort()
-  const server = await startServer({
+  const env = {
     ...process.env,
     DATABASE_URL: `sqlite:${path.join(dir, 'bench.sqlite')}`,
     NUXT_SESSION_PASSWORD: crypto.randomBytes(32).toString('hex'),
-    BANDLIGHT_SEED: 'demo',
-  }, port, { quiet: true })
+  }
+  if ((await run(process.execPath, ['--import', 'tsx', 'scripts/seed.ts'], env)) !== 0) throw new Error('seeding the bench database failed')
+  const server = await startServer(env, port, { quiet: true })
   const base = `http://127.0.0.1:${port}`
   try {
     const login = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'technician@bandlight.test', password: 'bandlight-demo' }) })

@@ -1,4 +1,4 @@
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /** Liveness with a real query. Open to anonymous callers. */
 export default defineEventHandler(async (event) => {

@@ -1,7 +1,7 @@
 import type { H3Event } from 'h3'
-import { bodyKindOf, bodyRuleFor, refuseTooLarge } from '../utils/bodyLimits'
-import { config } from '../utils/config'
-import { serverOrigin } from '../utils/request'
+import { bodyKindOf, bodyRuleFor, refuseTooLarge } from '#server/utils/bodyLimits'
+import { config } from '#server/utils/config'
+import { serverOrigin } from '#server/utils/request'
 
 const PAYLOAD_METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
 

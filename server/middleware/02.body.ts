@@ -1,5 +1,5 @@
 import type { IncomingMessage } from 'node:http'
-import { bodyRuleFor, refuseTooLarge } from '../utils/bodyLimits'
+import { bodyRuleFor, refuseTooLarge } from '#server/utils/bodyLimits'
 
 const PAYLOAD_METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
 const RAW_BODY = Symbol.for('h3RawBody')

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One row per change (ISO/IEC 17025 7.5: who did what and when). Written only by

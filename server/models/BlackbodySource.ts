@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { EquipmentStatus, SourceKind } from '../../shared/registers/constants'
-import { sequelize } from '../utils/db'
+import type { EquipmentStatus, SourceKind } from '#shared/registers/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * A blackbody reference source of the laboratory (ISO/IEC 17025 6.4). Temperatures in kelvin,

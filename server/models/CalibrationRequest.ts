@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { RequestStatus } from '../../shared/schemas/request'
-import { sequelize } from '../utils/db'
+import type { RequestStatus } from '#shared/schemas/request'
+import { sequelize } from '#server/utils/db'
 
 /**
  * A customer's request to have instruments calibrated. It lands in the laboratory's queue;

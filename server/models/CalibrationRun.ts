@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { RunStatus } from '../../shared/calibration/constants'
-import { sequelize } from '../utils/db'
+import type { RunStatus } from '#shared/calibration/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One calibration of a customer's instrument under one procedure version: who performed it, when,

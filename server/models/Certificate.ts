@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { CertificateStatus } from '../../shared/certificates/constants'
-import { sequelize } from '../utils/db'
+import type { CertificateStatus } from '#shared/certificates/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One issued revision of a calibration certificate (ISO/IEC 17025 7.8): the number (with its

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /**
  * The last certificate sequence used, per year of issue (year 0 when numbers carry no year).

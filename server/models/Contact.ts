@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 import { Organization } from './Organization'
 
 /** A person at a customer organization. Deactivated, never deleted. */

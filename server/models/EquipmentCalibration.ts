@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { EquipmentType } from '../../shared/registers/constants'
-import { sequelize } from '../utils/db'
+import type { EquipmentType } from '#shared/registers/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One external calibration of the laboratory's reference equipment (ISO/IEC 17025 6.4.13 e):

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute } from 'sequelize'
-import type { InstrumentKind, InstrumentStatus } from '../../shared/registers/constants'
-import type { AccuracySpec } from '../../shared/schemas/instrument'
-import { sequelize } from '../utils/db'
+import type { InstrumentKind, InstrumentStatus } from '#shared/registers/constants'
+import type { AccuracySpec } from '#shared/schemas/instrument'
+import { sequelize } from '#server/utils/db'
 import { Organization } from './Organization'
 import { SpectralResponse } from './SpectralResponse'
 

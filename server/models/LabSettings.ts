@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /**
  * The laboratory itself, as its certificates name it (one row): name and address, accreditation,

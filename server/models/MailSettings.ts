@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /**
  * When and how reminders go out (one row, id 1, created by migration 0005): the lab-local hour

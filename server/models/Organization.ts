@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /** A customer company. The laboratory itself is configured once and is not a row here. */
 export class Organization extends Model<InferAttributes<Organization>, InferCreationAttributes<Organization>> {

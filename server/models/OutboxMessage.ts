@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { MailKind, OutboxStatus } from '../../shared/schemas/mail'
-import { sequelize } from '../utils/db'
+import type { MailKind, OutboxStatus } from '#shared/schemas/mail'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One e-mail, written before it is sent (server/utils/outbox.ts delivers it). `dedupeKey` is

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { DecisionRuleName } from '../../shared/calibration/constants'
-import type { CmcEntry, TemplateComponent } from '../../shared/types/runs'
-import { sequelize } from '../utils/db'
+import type { DecisionRuleName } from '#shared/calibration/constants'
+import type { CmcEntry, TemplateComponent } from '#shared/types/runs'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One version of a procedure, never changed once written (a run keeps the version it used):

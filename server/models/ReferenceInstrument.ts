@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { EquipmentStatus, RangeUnit, ReferenceKind } from '../../shared/registers/constants'
-import { sequelize } from '../utils/db'
+import type { EquipmentStatus, RangeUnit, ReferenceKind } from '#shared/registers/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * A reference thermometer or ambient sensor of the laboratory (ISO/IEC 17025 6.4): contact

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /** What a reminder log row is about: a customer instrument, or the lab's own source or reference instrument. */
 export type ReminderItemType = 'instrument' | 'source' | 'reference'

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { PointStage } from '../../shared/calibration/constants'
-import type { PointMonteCarloDTO, PointResult } from '../../shared/types/runs'
-import { sequelize } from '../utils/db'
+import type { PointStage } from '#shared/calibration/constants'
+import type { PointMonteCarloDTO, PointResult } from '#shared/types/runs'
+import { sequelize } from '#server/utils/db'
 
 /**
  * One calibration point of a run: the observations (source, set-point, reference, repeat readings,

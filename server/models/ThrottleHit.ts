@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import { sequelize } from '../utils/db'
+import { sequelize } from '#server/utils/db'
 
 /** One counted event of a rate limit (server/utils/rateLimit.ts): a key and when it happened. */
 export class ThrottleHit extends Model<InferAttributes<ThrottleHit>, InferCreationAttributes<ThrottleHit>> {

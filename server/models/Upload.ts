@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { UploadPurpose } from '../../shared/registers/constants'
-import { sequelize } from '../utils/db'
+import type { UploadPurpose } from '#shared/registers/constants'
+import { sequelize } from '#server/utils/db'
 
 /**
  * An uploaded file's metadata. The bytes live under the data directory, named by their

@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute } from 'sequelize'
-import type { Role } from '../../shared/roles'
-import { sequelize } from '../utils/db'
+import type { Role } from '#shared/roles'
+import { sequelize } from '#server/utils/db'
 import { Organization } from './Organization'
 
 /** A person who signs in. Never hard-deleted: deactivate instead. */
@@ -9,7 +9,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare email: string
   declare name: string
   declare role: Role
-  /** scrypt hash from nuxt-auth-utils' hashPassword. */
+  /** scrypt hash (server/utils/password.ts, the scheme nuxt-auth-utils uses). */
   declare passwordHash: string
   declare organizationId: ForeignKey<Organization['id']> | null
   declare active: CreationOptional<boolean>

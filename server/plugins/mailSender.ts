@@ -1,5 +1,5 @@
-import { config } from '../utils/config'
-import { sendQueued } from '../utils/outbox'
+import { config } from '#server/utils/config'
+import { sendQueued } from '#server/services/mail/outbox'
 
 /**
  * Delivers the outbox every MAIL_SEND_INTERVAL_MS (default 5000; 0 turns it off). Runs in every

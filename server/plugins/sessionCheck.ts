@@ -1,4 +1,4 @@
-import { currentUser, toSessionUser } from '../utils/sessions'
+import { currentUser, toSessionUser } from '#server/services/auth/sessions'
 
 /**
  * The pages learn who is signed in from nuxt-auth-utils' session route. Check the session record

@@ -9,7 +9,7 @@
  *   overhead) and the public verification of a PDF.
  * - Open routes get the tightest limits: sign-in 8 KiB, verification of a PDF 4 MiB.
  */
-import type { H3Event } from 'h3'
+import { createError, type H3Event } from 'h3'
 import { config } from './config'
 
 export type BodyKind = 'json' | 'multipart' | 'pdf'

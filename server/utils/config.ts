@@ -20,8 +20,6 @@ export interface BandlightConfig {
   databaseUrl: string
   /** Log every SQL statement (DB_LOG=1). */
   databaseLog: boolean
-  /** `demo` seeds the demo scenario at start (BANDLIGHT_SEED). */
-  seed: string | null
   /** Where stored files live (BANDLIGHT_DATA_DIR); null = `files/` beside the SQLite file. */
   dataDir: string | null
   /** Largest accepted upload, bytes (UPLOAD_MAX_BYTES). */
@@ -79,7 +77,6 @@ function read(): BandlightConfig {
   return {
     databaseUrl: raw('DATABASE_URL') ?? DEFAULT_DATABASE_URL,
     databaseLog: raw('DB_LOG') === '1',
-    seed: raw('BANDLIGHT_SEED') ?? null,
     dataDir: raw('BANDLIGHT_DATA_DIR') ?? null,
     uploadMaxBytes: Math.floor(positive('UPLOAD_MAX_BYTES', DEFAULT_UPLOAD_MAX_BYTES)),
     bodyMaxBytes: Math.floor(positive('BODY_MAX_BYTES', 1024 * 1024)),

@@ -4,13 +4,13 @@
  * run as formulas (shared/csv.ts); import reads each row into typed input, validates it with
  * the register's zod schema and reports errors by line and field.
  */
-import type { H3Event } from 'h3'
+import { createError, setResponseHeader, type H3Event } from 'h3'
 import Papa from 'papaparse'
 import type { z } from 'zod'
-import { csvCell, unescapeFormula } from '../../shared/csv'
-import { isDateOnly } from '../../shared/registers/dates'
-import { fieldErrors } from '../../shared/schemas/errors'
-import type { ImportPreview, ImportPreviewRow } from '../../shared/types'
+import { csvCell, unescapeFormula } from '#shared/csv'
+import { isDateOnly } from '#shared/registers/dates'
+import { fieldErrors } from '#shared/schemas/errors'
+import type { ImportPreview, ImportPreviewRow } from '#shared/types'
 
 /** How a column's text becomes a value: `list` is `a; b; c`, `json` is a JSON cell. */
 export type CsvKind = 'text' | 'number' | 'integer' | 'boolean' | 'json' | 'date' | 'list'

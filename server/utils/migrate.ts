@@ -5,7 +5,7 @@
 import { Umzug, SequelizeStorage } from 'umzug'
 import type { QueryInterface } from 'sequelize'
 import { sequelize } from './db'
-import { migrations } from '../migrations'
+import { migrations } from '#server/migrations'
 
 export function migrator() {
   return new Umzug<QueryInterface>({

@@ -6,9 +6,8 @@
  *
  * Every function takes `now` (ms since the epoch) so tests can move time. No Nitro auto-imports.
  */
-import { createError, setResponseHeader, type H3Event } from 'h3'
 import { Op } from 'sequelize'
-import { ThrottleHit } from '../models/ThrottleHit'
+import { ThrottleHit } from '#server/models/ThrottleHit'
 import { serializeWrites } from './db'
 
 /** The longest window any limit uses; older hits are deleted as new ones arrive. */
@@ -57,15 +56,4 @@ export async function forgetHits(key: string): Promise<void> {
 /** Delete hits older than a day on every key (run by the hourly task). */
 export async function pruneHits(now = Date.now()): Promise<number> {
   return serializeWrites(() => ThrottleHit.destroy({ where: { at: { [Op.lt]: now - KEEP_MS } } }))
-}
-
-/** 429 Too Many Requests with Retry-After. */
-export function tooManyRequests(event: H3Event, waitSec: number, message: string, fields?: Record<string, string>): never {
-  setResponseHeader(event, 'Retry-After', waitSec)
-  throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message, data: { retryAfter: waitSec, ...(fields ? { fields } : {}) } })
-}
-
-/** "3 min" / "40 s" for a wait in seconds. */
-export function waitInWords(waitSec: number): string {
-  return waitSec >= 60 ? `${Math.ceil(waitSec / 60)} min` : `${waitSec} s`
 }

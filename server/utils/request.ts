@@ -4,7 +4,7 @@
  * TRUST_PROXY=1 so the address comes from X-Forwarded-For and the origin from X-Forwarded-Host and
  * X-Forwarded-Proto; otherwise those headers are ignored (a client could set them).
  */
-import type { H3Event } from 'h3'
+import { getRequestHeader, getRequestIP, type H3Event } from 'h3'
 import { config } from './config'
 
 /** The client's address (`unknown` when the socket has none). */

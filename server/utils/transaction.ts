@@ -1,6 +1,7 @@
-import type { Transaction } from 'sequelize'
-import { ForeignKeyConstraintError, OptimisticLockError, UniqueConstraintError, ValidationError } from 'sequelize'
+import { createError } from 'h3'
+import { type Transaction, ForeignKeyConstraintError, OptimisticLockError, UniqueConstraintError, ValidationError } from 'sequelize'
 import { writeTransaction } from './db'
+import { staleRecord } from './errors'
 
 /**
  * Run a change in one transaction (through the process's write queue, server/utils/db.ts) and turn the database's refusals into 4xx answers:
@@ -32,18 +33,4 @@ export async function inTransaction<T>(fn: (t: Transaction) => Promise<T>): Prom
     }
     throw err
   }
-}
-
-export function staleRecord() {
-  return createError({
-    statusCode: 409,
-    statusMessage: 'Conflict',
-    message: 'Someone else changed this record after you opened it. Reload it and apply your change again.',
-    data: { fields: { version: 'Stale version' } },
-  })
-}
-
-/** 409 unless the client's version is the stored one. */
-export function assertVersion(stored: number, seen: number): void {
-  if (stored !== seen) throw staleRecord()
 }

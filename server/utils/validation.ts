@@ -1,5 +1,6 @@
 import type { z } from 'zod'
-import { fieldErrors } from '../../shared/schemas/errors'
+import { fieldErrors } from '#shared/schemas/errors'
+import { invalidInput } from './errors'
 
 const NUL_MESSAGE = 'Contains a NUL character, which no field may hold'
 
@@ -44,4 +45,20 @@ export function parseWith<S extends z.ZodType>(schema: S) {
     // A plain object (not an Error) so it serializes into the response's `data`.
     throw { message, fields }
   }
+}
+
+/**
+ * Validate the record an update would produce (stored values overlaid with the change) against
+ * the create schema, so cross-field rules (min < max, band ends) hold after a partial update.
+ */
+export function checkMerged<S extends z.ZodType>(schema: S, merged: unknown): z.output<S> {
+  const result = schema.safeParse(merged)
+  if (!result.success) invalidInput(fieldErrors(result.error))
+  return result.data
+}
+
+/** The attributes of `input` without `version`, for `record.set(...)`. */
+export function changes<T extends { version: number }>(input: T): Omit<T, 'version'> {
+  const { version: _version, ...rest } = input
+  return rest
 }

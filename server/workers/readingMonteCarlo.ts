@@ -6,10 +6,10 @@
  * `{ type: 'done', values }` (a transferred Float64Array) or `{ type: 'error', field, message }`.
  */
 import { parentPort, workerData } from 'node:worker_threads'
-import { readingModel } from '../../shared/radiometry/reading'
-import { EngineInputError } from '../../shared/radiometry/errors'
-import { compileInputs, runMonteCarloChunk, type MonteCarloInput } from '../../shared/uncertainty/montecarlo'
-import type { BandInput } from '../../shared/schemas/calculation'
+import { readingModel } from '#shared/radiometry/reading'
+import { EngineInputError } from '#shared/radiometry/errors'
+import { compileInputs, runMonteCarloChunk, type MonteCarloInput } from '#shared/uncertainty/montecarlo'
+import type { BandInput } from '#shared/schemas/calculation'
 
 export interface McWorkerData {
   band: BandInput

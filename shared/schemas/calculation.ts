@@ -53,11 +53,13 @@ export const bandRadianceSchema = z.object({
   band: bandSchema,
   temperatureK: kelvin('temperatureK'),
 })
+export type BandRadianceInput = z.infer<typeof bandRadianceSchema>
 
 export const temperatureSchema = z.object({
   band: bandSchema,
   radiance: positive('radiance'),
 })
+export type TemperatureInput = z.infer<typeof temperatureSchema>
 
 export const readingInputShape = {
   band: bandSchema,
@@ -105,6 +107,7 @@ export const budgetSchema = z.object({
   components: z.array(budgetComponentSchema, { error: 'components must be a list' }).min(1, 'At least one component').max(200, 'At most 200 components'),
   coverageProbability: coverageProbabilitySchema.default(0.9545),
 })
+export type BudgetInput = z.infer<typeof budgetSchema>
 
 /** A Monte Carlo input distribution for one reading-model input. */
 export const mcDistributionSchema = z.discriminatedUnion('distribution', [
@@ -142,3 +145,5 @@ export const conformitySchema = z.object({
   guardBandFactor: num('guardBandFactor').min(0).max(10).optional(),
   percentBasis: z.enum(['celsius', 'kelvin']).optional(),
 })
+
+export type ConformityCalcInput = z.infer<typeof conformitySchema>

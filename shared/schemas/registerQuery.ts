@@ -77,6 +77,7 @@ export type CustomerQuery = z.infer<typeof customerQuerySchema>
 
 /** GET /api/responsivities */
 export const responsivityQuerySchema = pageQuerySchema
+export type ResponsivityQuery = z.infer<typeof responsivityQuerySchema>
 
 /** POST /api/<register>/[id]/archive */
 export const archiveSchema = z.object({

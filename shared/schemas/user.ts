@@ -43,6 +43,7 @@ export const userUpdateSchema = z
 export type UserUpdateInput = z.infer<typeof userUpdateSchema>
 
 export const passwordResetSchema = z.object({ password: passwordSchema })
+export type PasswordResetInput = z.infer<typeof passwordResetSchema>
 
 export const userListQuerySchema = z.object({
   includeInactive: z.enum(['true', 'false']).default('true').transform(v => v === 'true'),

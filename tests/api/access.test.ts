@@ -1,25 +1,33 @@
-// Access control for every route in server/api, enumerated from the files.
+// Access control for every route in server/api, enumerated from the files and checked against the
+// route matrix (shared/routeAccess.ts) and the permission policy (shared/permissions.ts): for every
+// route and every role the answer the policy says — 401 without a session, 403 for a role without
+// the permission, and for a role with it neither of those. A handler that grants a role the policy
+// does not, or refuses one it grants, fails here.
 import { describe, expect, it } from 'vitest'
+import { can } from '../../shared/permissions'
 import { ROLES } from '../../shared/roles'
+import { ROUTE_ACCESS, type RouteKey } from '../../shared/routeAccess'
 import { Client, signedIn } from '../support/http'
 import { apiRoutes } from '../support/routes'
 
-const OPEN = ['/api/auth/login', '/api/health', '/api/verify', '/api/verify/file', '/api/mail/unsubscribe']
 const routes = apiRoutes()
+const required = (key: string) => ROUTE_ACCESS[key as RouteKey] as string | undefined
+const isOpen = (key: string) => required(key) === 'open'
 
-describe('route enumeration', () => {
-  it('finds the routes, and every route calls requireRole unless it is open', () => {
+describe('route matrix', () => {
+  it('lists every route file, and every listed route has a file', () => {
     expect(routes.length).toBeGreaterThan(10)
-    for (const r of routes) {
-      if (OPEN.includes(r.path)) continue
-      expect(r.checksRole, `${r.file} must call requireRole(event, …) first`).toBe(true)
-    }
+    const missing = routes.filter(r => !required(r.key)).map(r => r.key)
+    expect(missing, 'add these routes to shared/routeAccess.ts').toEqual([])
+    const keys = new Set(routes.map(r => r.key))
+    const stale = Object.keys(ROUTE_ACCESS).filter(k => !keys.has(k))
+    expect(stale, 'these routes in shared/routeAccess.ts have no file').toEqual([])
   })
 })
 
 describe('anonymous callers', () => {
   const anon = new Client()
-  for (const r of routes.filter(r => !OPEN.includes(r.path))) {
+  for (const r of routes.filter(r => !isOpen(r.key))) {
     it(`${r.method} ${r.path} → 401`, async () => {
       const res = await anon.request(r.method, r.path, r.method === 'GET' ? undefined : {})
       expect(res.status).toBe(401)
@@ -32,15 +40,21 @@ describe('anonymous callers', () => {
   })
 })
 
-describe('wrong roles', () => {
+describe('every role, every route: the answer the policy gives', () => {
   for (const role of ROLES) {
-    const forbidden = routes.filter(r => r.roles.length > 0 && !r.roles.includes(role))
-    if (!forbidden.length) continue
-    it(`${role} gets 403 on ${forbidden.length} routes`, async () => {
-      const c = await signedIn(role)
-      for (const r of forbidden) {
+    it(`${role}: 403 exactly where the policy says so`, async () => {
+      const c = await signedIn(role, { 'x-forwarded-for': `203.0.113.${10 + ROLES.indexOf(role)}` })
+      for (const r of routes.filter(r => !isOpen(r.key))) {
+        if (r.key === 'POST /api/auth/logout') continue
+        const allowed = can(role, required(r.key) as Parameters<typeof can>[1])
         const res = await c.request(r.method, r.path, r.method === 'GET' ? undefined : {})
-        expect(res.status, `${role} ${r.method} ${r.path}`).toBe(403)
+        if (allowed) {
+          expect(res.status, `${role} ${r.method} ${r.path} (${required(r.key)}) must pass the role check`).not.toBe(401)
+          expect(res.status, `${role} ${r.method} ${r.path} (${required(r.key)}) must pass the role check`).not.toBe(403)
+        }
+        else {
+          expect(res.status, `${role} ${r.method} ${r.path} (${required(r.key)}) must be refused`).toBe(403)
+        }
       }
     })
   }
@@ -56,7 +70,7 @@ describe('no route answers 500 to any input', () => {
     it(`as ${role}, for every mutating route and every garbage body`, async () => {
       const c = await signedIn(role, { 'x-forwarded-for': PROBE_ADDRESS[role]! })
       for (const r of routes.filter(r => r.method !== 'GET')) {
-        if (r.path === '/api/auth/logout' || r.path === '/api/auth/login') continue
+        if (r.key === 'POST /api/auth/logout' || r.key === 'POST /api/auth/login') continue
         for (const body of garbage) {
           const res = await c.request(r.method, r.path, body)
           expect(res.status, `${role} ${r.method} ${r.path} with ${body}`).toBeGreaterThanOrEqual(400)

@@ -18,9 +18,9 @@ delete process.env.LAB_NAME
 const db = await import('../../server/utils/db')
 const { migrate } = await import('../../server/utils/migrate')
 const models = await import('../../server/models')
-const reminders = await import('../../server/utils/reminders')
-const outbox = await import('../../server/utils/outbox')
-const { closeMailTransport } = await import('../../server/utils/mail')
+const reminders = await import('../../server/services/reminders/reminders')
+const outbox = await import('../../server/services/mail/outbox')
+const { closeMailTransport } = await import('../../server/services/mail/transport')
 const { resetConfig } = await import('../../server/utils/config')
 const { Organization, Contact, Instrument, User, OutboxMessage, ReminderLog, AuditEvent, BlackbodySource, EquipmentCalibration, MailSettings } = models
 
@@ -323,7 +323,7 @@ describe('the outbox', () => {
 
 describe('unsubscribe', () => {
   it('refuses a forged or malformed token', async () => {
-    const { unsubscribeToken } = await import('../../server/utils/mailTokens')
+    const { unsubscribeToken } = await import('../../server/services/mail/tokens')
     const good = unsubscribeToken(ids.hollis!)
     const forged = `${ids.mira}.${good.split('.')[1]}`
     expect(await reminders.unsubscribeByToken(forged)).toBe(null)

@@ -3,8 +3,7 @@
  * invented names, so a test does not depend on what the demo scenario happens to hold.
  */
 import { expect } from 'vitest'
-import type { Client } from './http'
-import { unique } from './http'
+import { type Client, unique } from './http'
 
 export interface Made { id: number, version: number, [key: string]: unknown }
 

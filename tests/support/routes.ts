@@ -1,20 +1,19 @@
 /**
- * Enumerates the API from the files in server/api, so a new route is covered by the
- * access tests without anyone listing it. Each file `a/[id]/b.post.ts` becomes
- * `{ method: 'POST', path: '/api/a/1/b', roles }`, where `roles` are read from the
- * handler's `requireRole(event, ...)` call (empty = any signed-in user).
+ * Enumerates the API from the files in server/api, so a new route is covered by the access tests
+ * without anyone listing it here. Each file `a/[id]/b.post.ts` becomes
+ * `{ method: 'POST', key: 'POST /api/a/[id]/b', path: '/api/a/1/b' }`. What each route requires is
+ * looked up in the route matrix (shared/routeAccess.ts) — never read from the handler's source.
  */
 import fs from 'node:fs'
 import path from 'node:path'
-import { LAB_ROLES, type Role } from '../../shared/roles'
 
 export interface ApiRoute {
   file: string
   method: string
+  /** `METHOD /api/path/[param]`, the key of the route matrix. */
+  key: string
+  /** A concrete path with every parameter set to 1. */
   path: string
-  roles: Role[]
-  /** true when the handler calls requireRole at all. */
-  checksRole: boolean
 }
 
 const API_DIR = path.resolve(import.meta.dirname, '../../server/api')
@@ -31,12 +30,8 @@ export function apiRoutes(): ApiRoute[] {
     const m = /^(.*?)(?:\.(get|post|patch|put|delete))?\.ts$/.exec(rel)!
     const method = (m[2] ?? 'get').toUpperCase()
     const segments = m[1]!.split('/').filter(s => s !== 'index')
-    const urlPath = '/api/' + segments.map(s => (/^\[.*\]$/.test(s) ? '1' : s)).join('/')
-    const src = fs.readFileSync(file, 'utf8')
-    const call = /requireRole\(event(?:,\s*([^)]*))?\)/.exec(src)
-    const args = call?.[1] ?? ''
-    const roles = [...args.matchAll(/'(\w+)'/g)].map(x => x[1] as Role)
-    if (args.includes('LAB_ROLES')) roles.push(...LAB_ROLES)
-    return { file: rel, method, path: urlPath.replace(/\/$/, ''), roles, checksRole: !!call }
+    const pattern = ('/api/' + segments.join('/')).replace(/\/$/, '')
+    const urlPath = pattern.split('/').map(s => (/^\[.*\]$/.test(s) ? '1' : s)).join('/')
+    return { file: rel, method, key: `${method} ${pattern}`, path: urlPath }
   })
 }

@@ -1,5 +1,5 @@
-import { requireRole } from '../../utils/access'
+import { requirePermission } from '#server/utils/access'
 
 export default defineEventHandler(async (event) => {
-  return await requireRole(event)
+  return await requirePermission(event, 'account:self')
 })

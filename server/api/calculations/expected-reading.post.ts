@@ -1,17 +1,10 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { readingSensitivities } from '../../../shared/radiometry/reading'
-import { expectedReadingSchema } from '../../../shared/schemas/calculation'
-import { requireRole } from '../../utils/access'
-import { engine } from '../../utils/engine'
-import { parseWith } from '../../utils/validation'
+import { expectedReadingSchema } from '#shared/schemas/calculation'
+import { expectedReadingOf } from '#server/services/calculations/calculations'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
-/**
- * What an instrument with emissivity setting ε_i and internal temperature T_d should read on a
- * source of emissivity ε_s at T_s with reflected temperature T_w, and ∂T_meas/∂x for each input.
- */
+/** What an instrument should read on a source (reading model), with the sensitivity coefficients. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ...LAB_ROLES)
-  const input = await readValidatedBody(event, parseWith(expectedReadingSchema))
-  const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities(input), 'sourceTemperatureK')
-  return { expectedReadingK, sensitivities }
+  await requirePermission(event, 'calculation:run')
+  return expectedReadingOf(await readValidatedBody(event, parseWith(expectedReadingSchema)))
 })

@@ -1,13 +1,10 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { temperatureFromRadiance } from '../../../shared/radiometry/inversion'
-import { temperatureSchema } from '../../../shared/schemas/calculation'
-import { requireRole } from '../../utils/access'
-import { engine } from '../../utils/engine'
-import { parseWith } from '../../utils/validation'
+import { temperatureSchema } from '#shared/schemas/calculation'
+import { temperatureOf } from '#server/services/calculations/calculations'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
-/** Blackbody temperature, K, whose band radiance is the given one (inverse of band-radiance). */
+/** Inversion: the blackbody temperature, K, whose band radiance in the band is the given one. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ...LAB_ROLES)
-  const { band, radiance } = await readValidatedBody(event, parseWith(temperatureSchema))
-  return { temperatureK: engine(() => temperatureFromRadiance(band, radiance), 'radiance') }
+  await requirePermission(event, 'calculation:run')
+  return temperatureOf(await readValidatedBody(event, parseWith(temperatureSchema)))
 })

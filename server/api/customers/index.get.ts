@@ -1,12 +1,11 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { customerQuerySchema } from '../../../shared/schemas/registerQuery'
-import { requireRole } from '../../utils/access'
-import { listCustomers } from '../../utils/registersCustomers'
-import { parseWith } from '../../utils/validation'
+import { customerQuerySchema } from '#shared/schemas/registerQuery'
+import { requirePermission } from '#server/utils/access'
+import { listCustomers } from '#server/services/customers/customers'
+import { parseWith } from '#server/utils/validation'
 
 /** Customer organizations with their address and number of active contacts, paged on the server. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ...LAB_ROLES)
+  await requirePermission(event, 'customer:read')
   const q = await getValidatedQuery(event, parseWith(customerQuerySchema))
   return await listCustomers(q)
 })

@@ -1,14 +1,5 @@
-import { unsubscribeQuerySchema } from '../../../shared/schemas/mail'
-import { escapeHtml, labIdentity } from '../../utils/mailTemplates'
-import { unsubscribeByToken } from '../../utils/reminders'
-
-function page(title: string, message: string, labName: string): string {
-  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width"><title>${escapeHtml(title)}</title></head>
-<body style="margin:0;background:#f7f4ef;font-family:Helvetica,Arial,sans-serif;color:#2b2620">
-<main style="max-width:520px;margin:64px auto;background:#fff;border:1px solid #e4ddd3;border-top:3px solid #d9822b;border-radius:6px;padding:24px 28px">
-<h1 style="font-size:20px;margin:0 0 12px">${escapeHtml(title)}</h1><p style="line-height:1.5;margin:0 0 12px">${escapeHtml(message)}</p>
-<p style="font-size:13px;color:#6f665c;margin:0">${escapeHtml(labName)}</p></main></body></html>`
-}
+import { unsubscribeQuerySchema } from '#shared/schemas/mail'
+import { unsubscribePage } from '#server/services/mail/unsubscribe'
 
 /**
  * Open route (the link in every customer reminder): the signed token names a contact, who stops
@@ -20,19 +11,10 @@ export default defineEventHandler(async (event) => {
     if (r.success) return r.data
     throw { message: 'Invalid input: token: Not a valid unsubscribe link', fields: { token: 'Not a valid unsubscribe link' } }
   })
-  const outcome = await unsubscribeByToken(token)
-  if (!outcome) {
-    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'Invalid input: token: Not a valid unsubscribe link', data: { fields: { token: 'Not a valid unsubscribe link' } } })
-  }
-  const lab = await labIdentity()
+  const html = await unsubscribePage(token)
   setResponseHeader(event, 'content-type', 'text/html; charset=utf-8')
   setResponseHeader(event, 'cache-control', 'no-store')
-  const email = outcome.contact.email
-  return page(
-    'You are unsubscribed',
-    outcome.changed
-      ? `${email} will no longer receive recalibration reminders from us. To receive them again, ask the laboratory.`
-      : `${email} was already unsubscribed: no recalibration reminders are sent to this address.`,
-    lab.name,
-  )
+  // A page of its own: inline styles only, nothing else.
+  setResponseHeader(event, 'content-security-policy', "default-src 'none'; style-src 'unsafe-inline'; frame-ancestors 'none'")
+  return html
 })

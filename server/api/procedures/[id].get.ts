@@ -1,13 +1,12 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { idParamSchema } from '../../../shared/schemas/common'
-import type { ProcedureDetailDTO } from '../../../shared/types'
-import { requireRole } from '../../utils/access'
-import { procedureDetail } from '../../utils/procedures'
-import { parseWith } from '../../utils/validation'
+import { idParamSchema } from '#shared/schemas/common'
+import type { ProcedureDetailDTO } from '#shared/types'
+import { requirePermission } from '#server/utils/access'
+import { procedureDetail } from '#server/services/procedures/procedures'
+import { parseWith } from '#server/utils/validation'
 
 /** One procedure with all its versions (newest first) and its audit trail. */
 export default defineEventHandler(async (event): Promise<ProcedureDetailDTO> => {
-  await requireRole(event, ...LAB_ROLES)
+  await requirePermission(event, 'procedure:read')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
   return await procedureDetail(id)
 })

@@ -1,10 +1,9 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import type { ProcedureDTO } from '../../../shared/types'
-import { requireRole } from '../../utils/access'
-import { listProcedures } from '../../utils/procedures'
+import type { ProcedureDTO } from '#shared/types'
+import { requirePermission } from '#server/utils/access'
+import { listProcedures } from '#server/services/procedures/procedures'
 
 /** Every procedure with its current version (decision rule, budget template, CMC). */
 export default defineEventHandler(async (event): Promise<ProcedureDTO[]> => {
-  await requireRole(event, ...LAB_ROLES)
+  await requirePermission(event, 'procedure:read')
   return await listProcedures()
 })

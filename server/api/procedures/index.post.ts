@@ -1,14 +1,13 @@
-import { procedureCreateSchema } from '../../../shared/schemas/procedure'
-import { requireRole } from '../../utils/access'
-import { createProcedureIn, procedureOut } from '../../utils/procedures'
-import { inTransaction } from '../../utils/transaction'
-import { parseWith } from '../../utils/validation'
+import { procedureCreateSchema } from '#shared/schemas/procedure'
+import { createProcedure } from '#server/services/procedures/procedures'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 /** A new procedure and its version 1. */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, 'quality', 'admin')
+  const user = await requirePermission(event, 'procedure:edit')
   const input = await readValidatedBody(event, parseWith(procedureCreateSchema))
-  const row = await inTransaction(t => createProcedureIn(t, user.id, input))
+  const procedure = await createProcedure(user, input)
   setResponseStatus(event, 201)
-  return await procedureOut(row)
+  return procedure
 })

@@ -1,10 +1,11 @@
-import { idParamSchema } from '../../../shared/schemas/common'
-import { requireRole } from '../../utils/access'
-import { findRequest, requestDTO } from '../../utils/requests'
-import { parseWith } from '../../utils/validation'
+import { idParamSchema } from '#shared/schemas/common'
+import { requestDetail } from '#server/services/requests/requests'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
+/** One calibration request (a customer only its own organization's). */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, 'admin', 'technician', 'quality', 'customer')
+  const user = await requirePermission(event, 'request:read')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
-  return await requestDTO(await findRequest(user, id))
+  return await requestDetail(user, id)
 })

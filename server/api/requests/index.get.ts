@@ -1,11 +1,11 @@
-import { requestQuerySchema } from '../../../shared/schemas/request'
-import { requireRole } from '../../utils/access'
-import { listRequests } from '../../utils/requests'
-import { parseWith } from '../../utils/validation'
+import { requestQuerySchema } from '#shared/schemas/request'
+import { requirePermission } from '#server/utils/access'
+import { listRequests } from '#server/services/requests/requests'
+import { parseWith } from '#server/utils/validation'
 
 /** The laboratory's queue of calibration requests; a customer sees its own organization's. */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, 'admin', 'technician', 'quality', 'customer')
+  const user = await requirePermission(event, 'request:read')
   const q = await getValidatedQuery(event, parseWith(requestQuerySchema))
   return await listRequests(user, q)
 })

@@ -1,15 +1,11 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { idParamSchema } from '../../../shared/schemas/common'
-import { SpectralResponse } from '../../models/SpectralResponse'
-import { notFound, requireRole } from '../../utils/access'
-import { spectralResponseDTO } from '../../utils/presentRegisters'
-import { parseWith } from '../../utils/validation'
+import { idParamSchema } from '#shared/schemas/common'
+import { responsivityDetail } from '#server/services/responsivities/responsivities'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
-/** One responsivity table with its normalized points. */
+/** One responsivity table with its points. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ...LAB_ROLES)
+  await requirePermission(event, 'responsivity:read')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
-  const row = await SpectralResponse.findByPk(id)
-  if (!row) notFound('responsivity table')
-  return spectralResponseDTO(row)
+  return await responsivityDetail(id)
 })

@@ -1,14 +1,13 @@
-import { runCreateSchema } from '../../../shared/schemas/run'
-import { requireRole } from '../../utils/access'
-import { createRunIn, runDetail } from '../../utils/runs'
-import { inTransaction } from '../../utils/transaction'
-import { parseWith } from '../../utils/validation'
+import { runCreateSchema } from '#shared/schemas/run'
+import { createRun } from '#server/services/runs/runs'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 /** Start a draft run; the signed-in user is its technician. */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, 'technician', 'quality', 'admin')
+  const user = await requirePermission(event, 'run:edit')
   const input = await readValidatedBody(event, parseWith(runCreateSchema))
-  const run = await inTransaction(t => createRunIn(t, user, input))
+  const created = await createRun(user, input)
   setResponseStatus(event, 201)
-  return await runDetail(run.id)
+  return created
 })

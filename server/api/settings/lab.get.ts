@@ -1,10 +1,8 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import type { LabSettingsDTO } from '../../../shared/types'
-import { requireRole } from '../../utils/access'
-import { labSettingsDTO, labSettingsRow } from '../../utils/certificates'
+import { labSettings } from '#server/services/settings/labSettings'
+import { requirePermission } from '#server/utils/access'
 
 /** The laboratory's settings: name, address, accreditation, certificate numbering, signatory functions, statements. */
-export default defineEventHandler(async (event): Promise<LabSettingsDTO> => {
-  await requireRole(event, ...LAB_ROLES)
-  return labSettingsDTO(await labSettingsRow())
+export default defineEventHandler(async (event) => {
+  await requirePermission(event, 'settings:read')
+  return await labSettings()
 })

@@ -1,12 +1,11 @@
-import { LAB_ROLES } from '../../../shared/roles'
-import { sourceQuerySchema } from '../../../shared/schemas/registerQuery'
-import { requireRole } from '../../utils/access'
-import { SOURCE_REGISTER, exportEquipment } from '../../utils/registersEquipment'
-import { parseWith } from '../../utils/validation'
+import { sourceQuerySchema } from '#shared/schemas/registerQuery'
+import { requirePermission } from '#server/utils/access'
+import { SOURCE_REGISTER, exportEquipment } from '#server/services/equipment/equipment'
+import { parseWith } from '#server/utils/validation'
 
 /** CSV of the blackbody sources matching the list's filters (all pages), formula cells escaped. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ...LAB_ROLES)
+  await requirePermission(event, 'equipment:read')
   const q = await getValidatedQuery(event, parseWith(sourceQuerySchema))
   return await exportEquipment(SOURCE_REGISTER, event, q)
 })

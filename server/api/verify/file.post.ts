@@ -1,9 +1,8 @@
-import type { CertificateVerificationDTO } from '../../../shared/types'
-import { notVerified, verifyCertificateFile } from '../../utils/certificates'
-import { tooManyRequests, waitInWords } from '../../utils/rateLimit'
-import { invalidInput } from '../../utils/registers'
-import { clientAddress } from '../../utils/request'
-import { verifyFailed, verifyThrottle } from '../../utils/throttle'
+import type { CertificateVerificationDTO } from '#shared/types'
+import { notVerified, verifyCertificateFile } from '#server/services/certificates/verification'
+import { tooManyRequests, waitInWords, invalidInput } from '#server/utils/errors'
+import { clientAddress } from '#server/utils/request'
+import { verifyFailed, verifyThrottle } from '#server/utils/throttle'
 
 /**
  * Public verification of a PDF file (no sign-in): the body is the PDF's bytes, or a multipart form

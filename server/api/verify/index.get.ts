@@ -1,10 +1,10 @@
-import { verifyQuerySchema } from '../../../shared/schemas/certificate'
-import type { CertificateVerificationDTO } from '../../../shared/types'
-import { notVerified, verifyCertificate } from '../../utils/certificates'
-import { tooManyRequests, waitInWords } from '../../utils/rateLimit'
-import { clientAddress } from '../../utils/request'
-import { verifyFailed, verifyThrottle } from '../../utils/throttle'
-import { parseWith } from '../../utils/validation'
+import { verifyQuerySchema } from '#shared/schemas/certificate'
+import type { CertificateVerificationDTO } from '#shared/types'
+import { notVerified, verifyCertificate } from '#server/services/certificates/verification'
+import { tooManyRequests, waitInWords } from '#server/utils/errors'
+import { clientAddress } from '#server/utils/request'
+import { verifyFailed, verifyThrottle } from '#server/utils/throttle'
+import { parseWith } from '#server/utils/validation'
 
 /**
  * Public verification (no sign-in; listed in OPEN_API_ROUTES): number + verification code → the

@@ -1,5 +1,5 @@
-import { pruneHits } from '../../utils/rateLimit'
-import { runDailyReminders } from '../../utils/reminders'
+import { pruneHits } from '#server/utils/rateLimit'
+import { runDailyReminders } from '#server/services/reminders/reminders'
 
 /**
  * Recalibration reminders and reference-equipment alerts. Scheduled hourly (nuxt.config.ts);

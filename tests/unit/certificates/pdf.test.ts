@@ -5,8 +5,8 @@ import os from 'node:os'
 import path from 'node:path'
 import zlib from 'node:zlib'
 import { describe, expect, it } from 'vitest'
-import { certificatePdf, woffToSfnt } from '../../../server/utils/certificatePdf'
-import { sampleCertificateData } from '../../../server/utils/certificateSample'
+import { certificatePdf, woffToSfnt } from '../../../server/services/certificates/pdf'
+import { sampleCertificateData } from '../../../server/services/certificates/sample'
 
 const hasPdftotext = (() => {
   try {

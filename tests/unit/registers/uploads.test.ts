@@ -2,7 +2,7 @@
 // §7.5.2), PNG with 89 50 4E 47 0D 0A 1A 0A (PNG specification §5.2), JPEG with FF D8 FF (SOI
 // marker, ITU-T T.81 Annex B, followed by a marker).
 import { describe, expect, it } from 'vitest'
-import { detectUploadType, sanitizeFileName, uploadFilePath } from '../../../server/utils/uploads'
+import { detectUploadType, sanitizeFileName, uploadFilePath } from '../../../server/services/uploads/uploads'
 
 describe('detectUploadType', () => {
   it('recognizes PDF, PNG and JPEG by their first bytes, whatever the name', () => {

@@ -1,8 +1,7 @@
-import type { MailSettingsDTO } from '../../../../shared/types'
-import { requireRole } from '../../../utils/access'
-import { mailSettingsDTO, mailSettingsRow } from '../../../utils/reminders'
+import { mailSettingsDTO, mailSettingsRow } from '#server/services/mail/settings'
+import { requirePermission } from '#server/utils/access'
 
-export default defineEventHandler(async (event): Promise<MailSettingsDTO> => {
-  await requireRole(event, 'admin')
+export default defineEventHandler(async (event) => {
+  await requirePermission(event, 'mail:manage')
   return mailSettingsDTO(await mailSettingsRow())
 })

@@ -1,9 +1,7 @@
-import { Organization } from '../../../models/Organization'
-import { requireRole } from '../../../utils/access'
-import { organizationDTO } from '../../../utils/present'
+import { listOrganizations } from '#server/services/organizations/organizations'
+import { requirePermission } from '#server/utils/access'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'admin')
-  const rows = await Organization.findAll({ order: [['name', 'ASC']] })
-  return rows.map(organizationDTO)
+  await requirePermission(event, 'organization:manage')
+  return await listOrganizations()
 })

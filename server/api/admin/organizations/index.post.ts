@@ -1,19 +1,12 @@
-import { organizationCreateSchema } from '../../../../shared/schemas/organization'
-import { Organization } from '../../../models/Organization'
-import { requireRole } from '../../../utils/access'
-import { recordAudit, snapshot } from '../../../utils/audit'
-import { organizationDTO } from '../../../utils/present'
-import { inTransaction } from '../../../utils/transaction'
-import { parseWith } from '../../../utils/validation'
+import { organizationCreateSchema } from '#shared/schemas/organization'
+import { createOrganization } from '#server/services/organizations/organizations'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, 'admin')
+  const admin = await requirePermission(event, 'organization:manage')
   const input = await readValidatedBody(event, parseWith(organizationCreateSchema))
-  const org = await inTransaction(async (t) => {
-    const created = await Organization.create({ name: input.name, contactEmails: input.contactEmails }, { transaction: t })
-    await recordAudit(t, { userId: admin.id, action: 'create', entity: 'Organization', entityId: created.id, after: snapshot(created) })
-    return created
-  })
+  const org = await createOrganization(admin, input)
   setResponseStatus(event, 201)
-  return organizationDTO(org)
+  return org
 })

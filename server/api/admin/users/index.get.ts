@@ -1,18 +1,11 @@
-import { userListQuerySchema } from '../../../../shared/schemas/user'
-import { Organization } from '../../../models/Organization'
-import { User } from '../../../models/User'
-import { requireRole } from '../../../utils/access'
-import { userDTO } from '../../../utils/present'
-import { parseWith } from '../../../utils/validation'
+import { userListQuerySchema } from '#shared/schemas/user'
+import { listUsers } from '#server/services/users/users'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 /** All users (a lab has tens, not thousands: the table sorts and filters them in the page). */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'admin')
+  await requirePermission(event, 'user:manage')
   const { includeInactive } = await getValidatedQuery(event, parseWith(userListQuerySchema))
-  const users = await User.findAll({
-    where: includeInactive ? {} : { active: true },
-    include: [{ model: Organization, as: 'organization' }],
-    order: [['name', 'ASC']],
-  })
-  return users.map(userDTO)
+  return await listUsers(includeInactive)
 })

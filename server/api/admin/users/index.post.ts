@@ -1,27 +1,12 @@
-import { userCreateSchema } from '../../../../shared/schemas/user'
-import { Organization } from '../../../models/Organization'
-import { User } from '../../../models/User'
-import { requireRole } from '../../../utils/access'
-import { recordAudit, snapshot } from '../../../utils/audit'
-import { userDTO } from '../../../utils/present'
-import { inTransaction } from '../../../utils/transaction'
-import { parseWith } from '../../../utils/validation'
-import { assertActiveOrganization } from '../../../utils/organizations'
+import { userCreateSchema } from '#shared/schemas/user'
+import { createUser } from '#server/services/users/users'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, 'admin')
+  const admin = await requirePermission(event, 'user:manage')
   const input = await readValidatedBody(event, parseWith(userCreateSchema))
-  const passwordHash = await hashPassword(input.password)
-  const user = await inTransaction(async (t) => {
-    if (input.organizationId) await assertActiveOrganization(input.organizationId, t)
-    const created = await User.create(
-      { email: input.email, name: input.name, role: input.role, organizationId: input.organizationId ?? null, passwordHash },
-      { transaction: t },
-    )
-    await recordAudit(t, { userId: admin.id, action: 'create', entity: 'User', entityId: created.id, after: snapshot(created) })
-    return created
-  })
-  await user.reload({ include: [{ model: Organization, as: 'organization' }] })
+  const user = await createUser(admin, input)
   setResponseStatus(event, 201)
-  return userDTO(user)
+  return user
 })

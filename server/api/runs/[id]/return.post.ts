@@ -1,15 +1,13 @@
-import { idParamSchema } from '../../../../shared/schemas/common'
-import { runReturnSchema } from '../../../../shared/schemas/run'
-import { requireRole } from '../../../utils/access'
-import { returnRunIn, runDetail } from '../../../utils/runs'
-import { inTransaction } from '../../../utils/transaction'
-import { parseWith } from '../../../utils/validation'
+import { idParamSchema } from '#shared/schemas/common'
+import { runReturnSchema } from '#shared/schemas/run'
+import { returnRun } from '#server/services/runs/runs'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
 /** Return a submitted run to its technician with the reviewer's comments. */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, 'quality')
+  const user = await requirePermission(event, 'run:review')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
   const input = await readValidatedBody(event, parseWith(runReturnSchema))
-  await inTransaction(t => returnRunIn(t, user, id, input))
-  return await runDetail(id)
+  return await returnRun(user, id, input)
 })

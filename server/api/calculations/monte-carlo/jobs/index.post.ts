@@ -1,16 +1,12 @@
-import { LAB_ROLES } from '../../../../../shared/roles'
-import { monteCarloSchema } from '../../../../../shared/schemas/calculation'
-import { requireRole } from '../../../../utils/access'
-import { startJob } from '../../../../utils/jobs'
-import { gumForReading, runReadingMonteCarlo } from '../../../../utils/monteCarlo'
-import { parseWith } from '../../../../utils/validation'
+import { monteCarloSchema } from '#shared/schemas/calculation'
+import { startMonteCarloJob } from '#server/services/calculations/calculations'
+import { requirePermission } from '#server/utils/access'
+import { parseWith } from '#server/utils/validation'
 
-/** Start a Monte Carlo run in a worker; poll GET …/jobs/{id} for progress and the result. */
+/** Start a Monte Carlo check as a job to poll (202). */
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ...LAB_ROLES)
-  const req = await readValidatedBody(event, parseWith(monteCarloSchema))
-  gumForReading(req) // refuse an impossible point now (400), not later in the job
-  const job = startJob(user.id, req.trials, progress => runReadingMonteCarlo(req, progress))
+  const user = await requirePermission(event, 'calculation:run')
+  const job = startMonteCarloJob(user, await readValidatedBody(event, parseWith(monteCarloSchema)))
   setResponseStatus(event, 202)
-  return { id: job.id, status: job.status, done: job.done, total: job.total }
+  return job
 })

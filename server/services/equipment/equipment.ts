@@ -1,0 +1,218 @@
+/**
+ * The laboratory's reference equipment registers — blackbody sources and reference instruments —
+ * share one shape: identity, status, archive flag, calibration history (EquipmentCalibration),
+ * CSV import and export. The route files under server/api/sources and
+ * server/api/reference-instruments check the role and validate, then call these.
+ */
+import { createError, type H3Event } from 'h3'
+import { literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
+import type { z } from 'zod'
+import type { EquipmentType } from '#shared/registers/constants'
+import { todayISO } from '#shared/registers/dates'
+import type { CalibrationCreateInput } from '#shared/schemas/calibration'
+import type { ArchiveInput, CsvImportInput, ReferenceQuery, SourceQuery } from '#shared/schemas/registerQuery'
+import { referenceCreateSchema } from '#shared/schemas/referenceInstrument'
+import { sourceCreateSchema } from '#shared/schemas/source'
+import type { BlackbodySourceDTO, EquipmentCalibrationDTO, EquipmentDetailDTO, ImportPreview, ImportResult, Page, ReferenceInstrumentDTO, SessionUser } from '#shared/types'
+import { BlackbodySource } from '#server/models/BlackbodySource'
+import { EquipmentCalibration } from '#server/models/EquipmentCalibration'
+import { ReferenceInstrument } from '#server/models/ReferenceInstrument'
+import { Upload } from '#server/models/Upload'
+import { notFound, invalidInput, assertVersion } from '#server/utils/errors'
+import { recordAudit, snapshot } from '#server/utils/audit'
+import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from '#server/utils/csv'
+import { calibrationDTO, referenceInstrumentDTO, sourceDTO } from './dto'
+import { auditTrail } from '#server/services/audit/trail'
+import { calibrationsOf, dueDateSql } from './calibrations'
+import { changes, checkMerged } from '#server/utils/validation'
+import { ListFilter } from '#server/utils/search'
+import { inTransaction } from '#server/utils/transaction'
+
+type EquipmentRow = BlackbodySource | ReferenceInstrument
+
+interface EquipmentRegister<R extends EquipmentRow, D> {
+  type: EquipmentType
+  entity: 'BlackbodySource' | 'ReferenceInstrument'
+  /** For messages: "No such source". */
+  label: string
+  model: ModelStatic<R & Model>
+  createSchema: z.ZodType
+  importColumns: CsvColumns
+  exportColumns: readonly string[]
+  file: string
+  dto: (row: R, latest?: EquipmentCalibration, today?: string) => D
+}
+
+const SOURCE_IMPORT: CsvColumns = {
+  assetTag: 'text', kind: 'text', maker: 'text', model: 'text', serial: 'text', apertureMm: 'number',
+  minTemperatureK: 'number', maxTemperatureK: 'number', emissivity: 'number', emissivityU: 'number',
+  emissivityBandLambda1Um: 'number', emissivityBandLambda2Um: 'number', uniformityK: 'number', stabilityK: 'number',
+  corrections: 'json', status: 'text', notes: 'text',
+}
+const REFERENCE_IMPORT: CsvColumns = {
+  assetTag: 'text', kind: 'text', maker: 'text', model: 'text', serial: 'text', rangeMin: 'number', rangeMax: 'number',
+  rangeUnit: 'text', standardUncertainty: 'number', uncertaintyUnit: 'text', status: 'text', notes: 'text',
+}
+/** Read-only columns an export adds after the importable ones (ignored on import). */
+const EQUIPMENT_READ_ONLY = ['id', 'archived', 'lastCalibrationDate', 'dueDate', 'pastDue'] as const
+
+export const SOURCE_REGISTER: EquipmentRegister<BlackbodySource, BlackbodySourceDTO> = {
+  type: 'source',
+  entity: 'BlackbodySource',
+  label: 'source',
+  model: BlackbodySource,
+  createSchema: sourceCreateSchema,
+  importColumns: SOURCE_IMPORT,
+  exportColumns: [...Object.keys(SOURCE_IMPORT), ...EQUIPMENT_READ_ONLY],
+  file: 'blackbody-sources',
+  dto: sourceDTO,
+}
+
+export const REFERENCE_REGISTER: EquipmentRegister<ReferenceInstrument, ReferenceInstrumentDTO> = {
+  type: 'reference',
+  entity: 'ReferenceInstrument',
+  label: 'reference instrument',
+  model: ReferenceInstrument,
+  createSchema: referenceCreateSchema,
+  importColumns: REFERENCE_IMPORT,
+  exportColumns: [...Object.keys(REFERENCE_IMPORT), ...EQUIPMENT_READ_ONLY],
+  file: 'reference-instruments',
+  dto: referenceInstrumentDTO,
+}
+
+const SEARCH_COLUMNS = ['assetTag', 'serial', 'maker', 'model'] as const
+
+function listFilter<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, q: SourceQuery | ReferenceQuery): ListFilter {
+  const f = new ListFilter()
+  if (q.archived !== 'all') f.add({ archived: q.archived === 'true' })
+  if (q.status) f.add({ status: q.status })
+  if (q.kind) f.add({ kind: q.kind })
+  if (q.q) f.text(reg.model.name, SEARCH_COLUMNS, q.q)
+  if (q.dueBefore) f.sql(dueDateSql(reg.type, reg.model.name) + ' < ' + f.param(q.dueBefore))
+  return f
+}
+
+function listOrder<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, sort: string, dir: 'asc' | 'desc'): Order {
+  const d = dir === 'desc' ? 'DESC' : 'ASC'
+  // Equipment without a calibration sorts last either way.
+  if (sort === 'dueDate') return [[literal(dueDateSql(reg.type, reg.model.name) + ' IS NULL'), 'ASC'], [literal(dueDateSql(reg.type, reg.model.name)), d], ['id', d]]
+  return [[sort, d], ['id', d]]
+}
+
+async function withLatest<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, rows: R[]): Promise<D[]> {
+  const cals = await calibrationsOf(reg.type, rows.map(r => r.id))
+  const today = todayISO()
+  return rows.map(r => reg.dto(r, cals.get(r.id)?.[0], today))
+}
+
+export async function listEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, q: SourceQuery | ReferenceQuery): Promise<Page<D>> {
+  const filter = listFilter(reg, q).options()
+  const [total, rows] = await Promise.all([
+    reg.model.count(filter),
+    reg.model.findAll({ ...filter, order: listOrder(reg, q.sort, q.dir), limit: q.pageSize, offset: (q.page - 1) * q.pageSize }),
+  ])
+  return { rows: await withLatest(reg, rows), total, page: q.page, pageSize: q.pageSize }
+}
+
+export async function equipmentDetail<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, id: number): Promise<EquipmentDetailDTO<D>> {
+  const row = await reg.model.findByPk(id)
+  if (!row) notFound(reg.label)
+  const calibrations = (await calibrationsOf(reg.type, [id])).get(id) ?? []
+  return {
+    ...reg.dto(row, calibrations[0]),
+    calibrations: calibrations.map(calibrationDTO),
+    audit: await auditTrail(reg.entity, id),
+  }
+}
+
+export async function createEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, input: Record<string, unknown>): Promise<D> {
+  const row = await inTransaction(async (t) => {
+    const created = await reg.model.create(input as never, { transaction: t })
+    await recordAudit(t, { userId: user.id, action: 'create', entity: reg.entity, entityId: created.id, after: snapshot(created) })
+    return created
+  })
+  return reg.dto(row)
+}
+
+export async function updateEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: { version: number } & Record<string, unknown>): Promise<D> {
+  const row = await inTransaction(async (t) => {
+    const row = await reg.model.findByPk(id, { transaction: t })
+    if (!row) notFound(reg.label)
+    assertVersion(row.version, input.version)
+    const before = snapshot(row)
+    const { id: _id, version: _v, archived: _a, createdAt: _c, updatedAt: _u, ...stored } = before
+    const merged = checkMerged(reg.createSchema, { ...stored, ...changes(input) }) as Record<string, unknown>
+    row.set(merged as never)
+    if (!row.changed()) return row
+    await row.save({ transaction: t })
+    await recordAudit(t, { userId: user.id, action: 'update', entity: reg.entity, entityId: row.id, before, after: snapshot(row) })
+    return row
+  })
+  const cals = await calibrationsOf(reg.type, [id])
+  return reg.dto(row, cals.get(id)?.[0])
+}
+
+export async function archiveEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: ArchiveInput): Promise<D> {
+  const row = await inTransaction(async (t) => {
+    const row = await reg.model.findByPk(id, { transaction: t })
+    if (!row) notFound(reg.label)
+    assertVersion(row.version, input.version)
+    if (!!row.archived === input.archived) return row
+    const before = snapshot(row)
+    row.set({ archived: input.archived } as never)
+    await row.save({ transaction: t })
+    await recordAudit(t, { userId: user.id, action: input.archived ? 'archive' : 'restore', entity: reg.entity, entityId: row.id, before, after: snapshot(row) })
+    return row
+  })
+  const cals = await calibrationsOf(reg.type, [id])
+  return reg.dto(row, cals.get(id)?.[0])
+}
+
+export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibrationDTO> {
+  const cal = await inTransaction(async (t) => {
+    const row = await reg.model.findByPk(id, { transaction: t })
+    if (!row) notFound(reg.label)
+    if (input.uploadId) {
+      const upload = await Upload.findByPk(input.uploadId, { transaction: t })
+      if (!upload || upload.purpose !== 'equipment-certificate') invalidInput({ uploadId: 'No uploaded equipment certificate with this id' })
+    }
+    const clash = await EquipmentCalibration.findOne({ where: { equipmentType: reg.type, equipmentId: id, certificateNumber: input.certificateNumber }, transaction: t })
+    if (clash) {
+      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This certificate is already recorded', data: { fields: { certificateNumber: 'Already recorded for this equipment' } } })
+    }
+    const created = await EquipmentCalibration.create(
+      { equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id },
+      { transaction: t },
+    )
+    await recordAudit(t, { userId: user.id, action: 'create', entity: 'EquipmentCalibration', entityId: created.id, after: snapshot(created) })
+    await recordAudit(t, { userId: user.id, action: 'add-calibration', entity: reg.entity, entityId: id, after: { calibrationId: created.id, certificateNumber: created.certificateNumber, calibrationDate: created.calibrationDate, dueDate: created.dueDate } })
+    return created
+  })
+  return calibrationDTO(cal)
+}
+
+export async function exportEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, event: H3Event, q: SourceQuery | ReferenceQuery): Promise<string> {
+  const rows = await reg.model.findAll({ ...listFilter(reg, q).options(), order: listOrder(reg, q.sort, q.dir), limit: 100_000 })
+  const dtos = await withLatest(reg, rows)
+  return sendCsv(event, reg.file, csvFromRows(reg.exportColumns, dtos as Record<string, unknown>[]))
+}
+
+export async function importEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, input: CsvImportInput): Promise<ImportPreview | ImportResult> {
+  const rows = withCsvShape(() => checkCsvRows(input.csv, reg.importColumns, reg.createSchema)) as ReturnType<typeof checkCsvRows<typeof sourceCreateSchema>>
+  markDuplicates(rows, v => String(v.assetTag), 'assetTag')
+  const tags = rows.filter(r => r.value).map(r => String(r.value!.assetTag))
+  if (tags.length) {
+    const existing = await reg.model.findAll({ where: { assetTag: tags } as WhereOptions, attributes: ['assetTag'] })
+    const taken = new Set(existing.map(e => e.assetTag.toLowerCase()))
+    for (const row of rows) if (row.value && taken.has(String(row.value.assetTag).toLowerCase())) rowError(row, 'assetTag', 'Already in the register')
+  }
+  if (!input.commit) return previewOf(rows)
+  const values = refuseUnlessAllValid(rows)
+  await inTransaction(async (t) => {
+    for (const value of values) {
+      const created = await reg.model.create(value as never, { transaction: t })
+      await recordAudit(t, { userId: user.id, action: 'import', entity: reg.entity, entityId: created.id, after: snapshot(created) })
+    }
+  })
+  return { created: values.length }
+}

@@ -1,0 +1,37 @@
+/** Plain JSON for customers' instruments (shared/types/registers.ts). */
+import { isPastDue, todayISO } from '#shared/registers/dates'
+import type { InstrumentDTO } from '#shared/types'
+import type { Instrument } from '#server/models/Instrument'
+
+export function instrumentDTO(i: Instrument, names: { organization?: string | null, spectralResponse?: string | null } = {}, today = todayISO()): InstrumentDTO {
+  return {
+    id: i.id,
+    organizationId: i.organizationId,
+    organizationName: names.organization ?? i.organization?.name ?? null,
+    serial: i.serial,
+    assetTag: i.assetTag ?? null,
+    maker: i.maker,
+    model: i.model,
+    kind: i.kind,
+    bandLambda1Um: i.bandLambda1Um ?? null,
+    bandLambda2Um: i.bandLambda2Um ?? null,
+    spectralResponseId: i.spectralResponseId ?? null,
+    spectralResponseName: names.spectralResponse ?? i.spectralResponse?.name ?? null,
+    distanceToSpot: i.distanceToSpot ?? null,
+    rangeMinK: i.rangeMinK,
+    rangeMaxK: i.rangeMaxK,
+    defaultEmissivity: i.defaultEmissivity,
+    resolutionK: i.resolutionK,
+    accuracy: i.accuracy,
+    calibrationIntervalMonths: i.calibrationIntervalMonths,
+    status: i.status,
+    nextDueDate: i.nextDueDate ?? null,
+    pastDue: isPastDue(i.nextDueDate, today),
+    photoUploadId: i.photoUploadId ?? null,
+    notes: i.notes ?? null,
+    archived: !!i.archived,
+    version: i.version,
+    createdAt: i.createdAt.toISOString(),
+    updatedAt: i.updatedAt.toISOString(),
+  }
+}

@@ -1,0 +1,147 @@
+/**
+ * E-mail templates: each message as plain text and as HTML with inline styles only (mail
+ * clients drop style sheets), no images, no web fonts, nothing loaded from elsewhere.
+ * Every message names the laboratory (`labIdentity()`); customer messages end with the
+ * unsubscribe link. No Nuxt or Nitro imports.
+ */
+import type { Transaction } from 'sequelize'
+import { LabSettings } from '#server/models/LabSettings'
+import { config } from '#server/utils/config'
+
+export interface LabIdentity {
+  name: string
+  /** Postal address lines. */
+  address: string[]
+}
+
+/**
+ * The laboratory as messages name it: from the LabSettings row when there is one, otherwise
+ * from `LAB_NAME` / `LAB_ADDRESS` (lines separated by `|` or newlines), otherwise invented defaults.
+ */
+export async function labIdentity(transaction?: Transaction): Promise<LabIdentity> {
+  const row = await LabSettings.findOne({ order: [['id', 'ASC']], transaction })
+  if (row) {
+    const address = [...row.addressLines.split('\n'), [row.postcode, row.city].filter(Boolean).join(' '), row.country]
+    return { name: row.name, address: address.map(l => l.trim()).filter(Boolean) }
+  }
+  const address = (config().lab.address || 'Unit 2, Emberfield Science Park|Cinder Row|Emberfield EF3 9LB|United Kingdom')
+    .split(/\||\n/)
+    .map(l => l.trim())
+    .filter(Boolean)
+  return { name: config().lab.name || 'Bandlight Radiation Thermometry Laboratory', address }
+}
+
+export interface RenderedMail {
+  subject: string
+  text: string
+  html: string
+}
+
+export interface ReminderLine {
+  label: string
+  detail: string
+  dueDate: string
+  dueInWords: string
+  overdue: boolean
+}
+
+export function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
+}
+
+const FONT = 'font-family:Helvetica,Arial,sans-serif'
+const INK = '#2b2620'
+const MUTED = '#6f665c'
+
+function htmlPage(lab: LabIdentity, body: string, footer: string): string {
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width"></head>
+<body style="margin:0;padding:0;background:#f7f4ef;${FONT};color:${INK}">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="background:#f7f4ef;padding:24px 8px">
+<tr><td align="center">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="width:100%;max-width:600px;background:#ffffff;border:1px solid #e4ddd3;border-radius:6px">
+<tr><td style="padding:18px 24px;border-bottom:3px solid #d9822b;${FONT};font-size:18px;font-weight:bold;color:${INK}">${escapeHtml(lab.name)}</td></tr>
+<tr><td style="padding:20px 24px;${FONT};font-size:15px;line-height:1.5;color:${INK}">${body}</td></tr>
+<tr><td style="padding:14px 24px;border-top:1px solid #e4ddd3;${FONT};font-size:12px;line-height:1.5;color:${MUTED}">${escapeHtml(lab.name)}<br>${lab.address.map(escapeHtml).join('<br>')}${footer}</td></tr>
+</table>
+</td></tr></table>
+</body></html>`
+}
+
+function linesTableHtml(lines: ReminderLine[], columns: [string, string, string]): string {
+  const th = (s: string) => `<th align="left" style="padding:6px 8px;border-bottom:2px solid #e4ddd3;font-size:13px;color:${MUTED}">${s}</th>`
+  const td = (s: string, extra = '') => `<td style="padding:6px 8px;border-bottom:1px solid #efe9e1;font-size:14px;${extra}">${s}</td>`
+  const rows = lines.map(l => `<tr>${td(escapeHtml(l.label), 'font-weight:bold')}${td(escapeHtml(l.detail))}${td(`${escapeHtml(l.dueDate)}<br><span style="color:${l.overdue ? '#b42318' : MUTED};font-size:12px">${escapeHtml(l.dueInWords)}</span>`)}</tr>`).join('')
+  return `<table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="border-collapse:collapse;margin:12px 0">
+<tr>${columns.map(th).join('')}</tr>${rows}</table>`
+}
+
+function linesText(lines: ReminderLine[]): string {
+  return lines.map(l => `  - ${l.label} — ${l.detail} — due ${l.dueDate} (${l.dueInWords})`).join('\n')
+}
+
+function addressText(lab: LabIdentity): string {
+  return [lab.name, ...lab.address].join('\n')
+}
+
+/** The recalibration reminder to one customer contact, listing each instrument at a new milestone. */
+export function reminderMail(input: { lab: LabIdentity, contactName: string, organizationName: string, lines: ReminderLine[], unsubscribeUrl: string }): RenderedMail {
+  const { lab, lines } = input
+  const n = lines.length
+  const anyOverdue = lines.some(l => l.overdue)
+  const noun = `${n} instrument${n === 1 ? '' : 's'}`
+  const subject = `${anyOverdue ? 'Recalibration overdue' : 'Recalibration due'}: ${noun} — ${input.organizationName}`
+  const intro = anyOverdue
+    ? `The following ${noun} of ${input.organizationName} ${n === 1 ? 'is' : 'are'} due or overdue for recalibration.`
+    : `The following ${noun} of ${input.organizationName} will soon be due for recalibration.`
+  const ask = 'To book a calibration, reply to this message or contact the laboratory. Instruments used past their due date may no longer be traceable.'
+  const text = `Dear ${input.contactName},
+
+${intro}
+
+${linesText(lines)}
+
+${ask}
+
+Kind regards,
+${addressText(lab)}
+
+You receive these reminders as a contact of ${input.organizationName}. To stop them, open:
+${input.unsubscribeUrl}
+`
+  const body = `<p style="margin:0 0 12px">Dear ${escapeHtml(input.contactName)},</p>
+<p style="margin:0 0 12px">${escapeHtml(intro)}</p>
+${linesTableHtml(lines, ['Serial', 'Instrument', 'Due'])}
+<p style="margin:12px 0 0">${escapeHtml(ask)}</p>`
+  const footer = `<br><br>You receive these reminders as a contact of ${escapeHtml(input.organizationName)}. <a href="${escapeHtml(input.unsubscribeUrl)}" style="color:#1f6f78">Stop recalibration reminders</a>`
+  return { subject, text, html: htmlPage(lab, body, footer) }
+}
+
+/** The alert to one quality manager about the lab's own reference equipment due within 30 days or overdue. */
+export function equipmentAlertMail(input: { lab: LabIdentity, userName: string, lines: ReminderLine[] }): RenderedMail {
+  const { lab, lines } = input
+  const n = lines.length
+  const anyOverdue = lines.some(l => l.overdue)
+  const subject = `${anyOverdue ? 'Reference equipment overdue' : 'Reference equipment due'}: ${n} item${n === 1 ? '' : 's'}`
+  const intro = `The calibration of ${n === 1 ? 'this item' : `these ${n} items`} of reference equipment is due within 30 days or past due. Equipment past its due date must not be used for calibrations until it is recalibrated.`
+  const text = `Dear ${input.userName},
+
+${intro}
+
+${linesText(lines)}
+
+${addressText(lab)}
+`
+  const body = `<p style="margin:0 0 12px">Dear ${escapeHtml(input.userName)},</p>
+<p style="margin:0 0 12px">${escapeHtml(intro)}</p>
+${linesTableHtml(lines, ['Asset', 'Equipment', 'Due'])}`
+  return { subject, text, html: htmlPage(lab, body, '') }
+}
+
+/** A short event message (request received or accepted, certificate issued) with an optional link. */
+export function eventMail(input: { lab: LabIdentity, subject: string, greeting: string, paragraphs: string[], link?: { url: string, label: string } }): RenderedMail {
+  const { lab, subject, greeting, paragraphs, link } = input
+  const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(link ? [`${link.label}: ${link.url}`, ''] : []), addressText(lab)].join('\n')
+  const body = `<p style="margin:0 0 12px">${escapeHtml(greeting)}</p>${paragraphs.map(p => `<p style="margin:0 0 12px">${escapeHtml(p)}</p>`).join('')}${link ? `<p style="margin:16px 0"><a href="${escapeHtml(link.url)}" style="color:#1d7e75;font-weight:bold">${escapeHtml(link.label)}</a></p>` : ''}`
+  return { subject, text, html: htmlPage(lab, body, '') }
+}

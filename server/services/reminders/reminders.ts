@@ -1,0 +1,352 @@
+/**
+ * The reminder scan (the daily job `reminders:daily`, "run reminders now" and its preview):
+ *
+ * - customers: each instrument that is not archived or retired, of an active organization, is at
+ *   a milestone of its due date (shared/mail/milestones.ts: lead times, due date, weekly while
+ *   overdue); each milestone not yet in the reminder log is reminded about once. One message per
+ *   active contact who receives reminders, listing all of that organization's instruments at a new
+ *   milestone, with the contact's own unsubscribe link;
+ * - the lab: each blackbody source and reference instrument in service or quarantined whose
+ *   latest calibration is due within 30 days (`due-soon`) or past due (`overdue`), one message per
+ *   active quality manager.
+ *
+ * Idempotent: an organization's log rows and its outbox rows are written in one transaction, the
+ * log key (itemType, itemId, dueDate, milestone) and the outbox dedupeKey are unique, so running
+ * twice sends nothing new and two instances cannot both send — the later transaction fails on the
+ * unique key, rolls back and is counted as skipped. A milestone reached on a day the job did not
+ * run is still unlogged, and the next run sends it. No Nuxt or Nitro imports.
+ */
+import crypto from 'node:crypto'
+import { QueryTypes, UniqueConstraintError } from 'sequelize'
+import {
+  dueInWords,
+  equipmentMilestoneOn,
+  labLocalDate,
+  labLocalHour,
+  milestonesOn,
+  reminderHorizon,
+  type IsoDate,
+  type MilestoneRules,
+} from '#shared/mail/milestones'
+import type { MailKind } from '#shared/schemas/mail'
+import type { ReminderPreviewDTO, ReminderRunDTO } from '#shared/types/mail'
+import { Contact } from '#server/models/Contact'
+import type { MailSettings } from '#server/models/MailSettings'
+import { Organization } from '#server/models/Organization'
+import type { ReminderItemType } from '#server/models/ReminderLog'
+import { User } from '#server/models/User'
+import { recordAudit, snapshot } from '#server/utils/audit'
+import { sequelize, writeTransaction } from '#server/utils/db'
+import { unsubscribeUrl, verifyUnsubscribeToken } from '#server/services/mail/tokens'
+import { equipmentAlertMail, labIdentity, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
+import { queueMail, sendQueued, type SendOptions } from '#server/services/mail/outbox'
+import { mailSettingsRow } from '#server/services/mail/settings'
+
+/** Reference equipment is reported this many days before its due date. */
+export const EQUIPMENT_WINDOW_DAYS = 30
+const LOG_CHUNK = 200
+const DETAIL_CHUNK = 900
+
+function rulesOf(row: MailSettings): MilestoneRules {
+  return { leadTimes: row.leadTimes, overdueWeekly: !!row.overdueWeekly }
+}
+
+// ---------------------------------------------------------------- planning
+
+export interface PlannedItem extends ReminderLine {
+  itemType: ReminderItemType
+  itemId: number
+  milestone: string
+}
+
+export interface PlannedMessage {
+  kind: MailKind
+  to: string[]
+  subject: string
+  text: string
+  html: string
+  dedupeKey: string
+}
+
+/** What one transaction writes: the log rows of a group (an organization, or the lab's equipment) and its messages. */
+export interface PlannedGroup {
+  key: string
+  items: PlannedItem[]
+  messages: PlannedMessage[]
+}
+
+export interface ReminderPlan {
+  today: IsoDate
+  groups: PlannedGroup[]
+}
+
+interface CandidateRow {
+  id: number
+  organizationId: number
+  nextDueDate: string
+  /** Milestones of this due date already logged, space-separated, or null. */
+  sent: string | null
+}
+
+interface DetailRow { id: number, serial: string, maker: string, model: string }
+
+function itemsHash(items: PlannedItem[]): string {
+  const keys = items.map(i => `${i.itemType}:${i.itemId}:${i.dueDate}:${i.milestone}`).sort()
+  return crypto.createHash('sha256').update(keys.join('\n')).digest('hex').slice(0, 20)
+}
+
+function byDueThenLabel(a: PlannedItem, b: PlannedItem): number {
+  return a.dueDate < b.dueDate ? -1 : a.dueDate > b.dueDate ? 1 : a.label.localeCompare(b.label)
+}
+
+async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: LabIdentity): Promise<PlannedGroup[]> {
+  const horizon = reminderHorizon(today, rules.leadTimes)
+  // One pass over the register: every instrument that could be at a milestone, of an organization
+  // someone at which receives reminders, with the milestones of its due date already logged
+  // (a correlated look-up on the log's unique index).
+  const candidates = await sequelize.query<CandidateRow>(
+    `SELECT i.id, i.organizationId, i.nextDueDate,
+            (SELECT group_concat(r.milestone, ' ') FROM reminder_logs r
+              WHERE r.itemType = 'instrument' AND r.itemId = i.id AND r.dueDate = i.nextDueDate) AS sent
+       FROM instruments i JOIN organizations o ON o.id = i.organizationId AND o.active = 1
+      WHERE i.archived = 0 AND i.status <> 'retired' AND i.nextDueDate IS NOT NULL AND i.nextDueDate <= :horizon
+        AND EXISTS (SELECT 1 FROM contacts c WHERE c.organizationId = i.organizationId AND c.active = 1 AND c.receivesReminders = 1)`,
+    { type: QueryTypes.SELECT, replacements: { horizon } },
+  )
+  const milestoneOf = milestonesOn(today, rules)
+  const due: { row: CandidateRow, key: string, daysToDue: number }[] = []
+  for (const c of candidates) {
+    const m = milestoneOf(c.nextDueDate)
+    if (!m || (c.sent && c.sent.split(' ').includes(m.key))) continue
+    due.push({ row: c, key: m.key, daysToDue: m.daysToDue })
+  }
+  if (!due.length) return []
+
+  // Serial, maker and model only of the instruments that will be listed.
+  const details = new Map<number, DetailRow>()
+  for (let i = 0; i < due.length; i += DETAIL_CHUNK) {
+    const rows = await sequelize.query<DetailRow>('SELECT id, serial, maker, model FROM instruments WHERE id IN (:ids)', {
+      type: QueryTypes.SELECT,
+      replacements: { ids: due.slice(i, i + DETAIL_CHUNK).map(d => d.row.id) },
+    })
+    for (const r of rows) details.set(r.id, r)
+  }
+  const pending = new Map<number, PlannedItem[]>()
+  for (const { row, key, daysToDue } of due) {
+    const d = details.get(row.id)
+    if (!d) continue
+    const list = pending.get(row.organizationId) ?? []
+    list.push({
+      itemType: 'instrument',
+      itemId: row.id,
+      dueDate: row.nextDueDate,
+      milestone: key,
+      label: d.serial,
+      detail: `${d.maker} ${d.model}`,
+      dueInWords: dueInWords(daysToDue),
+      overdue: daysToDue < 0,
+    })
+    pending.set(row.organizationId, list)
+  }
+
+  const orgIds = [...pending.keys()]
+  const [contacts, orgs] = await Promise.all([
+    Contact.findAll({ where: { organizationId: orgIds, active: true, receivesReminders: true }, order: [['id', 'ASC']] }),
+    Organization.findAll({ where: { id: orgIds }, attributes: ['id', 'name'] }),
+  ])
+  const orgName = new Map(orgs.map(o => [o.id, o.name]))
+  const contactsOf = new Map<number, Contact[]>()
+  for (const c of contacts) {
+    const list = contactsOf.get(c.organizationId) ?? []
+    // One message per address, even if two contact rows share it.
+    if (!list.some(x => x.email.toLowerCase() === c.email.toLowerCase())) list.push(c)
+    contactsOf.set(c.organizationId, list)
+  }
+
+  const groups: PlannedGroup[] = []
+  for (const [orgId, items] of pending) {
+    const recipients = contactsOf.get(orgId)
+    // Nobody to tell: nothing is logged, so a contact added later still gets the reminder.
+    if (!recipients?.length) continue
+    items.sort(byDueThenLabel)
+    const hash = itemsHash(items)
+    const messages = recipients.map((contact) => {
+      const mail = reminderMail({ lab, contactName: contact.name, organizationName: orgName.get(orgId) ?? 'your organization', lines: items, unsubscribeUrl: unsubscribeUrl(contact.id) })
+      return { kind: 'reminder' as const, to: [contact.email], ...mail, dedupeKey: `reminder:${contact.id}:${today}:${hash}` }
+    })
+    groups.push({ key: `organization:${orgId}`, items, messages })
+  }
+  return groups
+}
+
+interface EquipmentRow { id: number, assetTag: string, maker: string, model: string, serial: string }
+
+async function planEquipmentGroup(today: IsoDate, lab: LabIdentity): Promise<PlannedGroup[]> {
+  const live = `archived = 0 AND status <> 'out-of-service'`
+  const [sources, references, calibrations] = await Promise.all([
+    sequelize.query<EquipmentRow>(`SELECT id, assetTag, maker, model, serial FROM blackbody_sources WHERE ${live}`, { type: QueryTypes.SELECT }),
+    sequelize.query<EquipmentRow>(`SELECT id, assetTag, maker, model, serial FROM reference_instruments WHERE ${live}`, { type: QueryTypes.SELECT }),
+    sequelize.query<{ equipmentType: ReminderItemType, equipmentId: number, calibrationDate: string, dueDate: string }>(
+      'SELECT equipmentType, equipmentId, calibrationDate, dueDate FROM equipment_calibrations ORDER BY calibrationDate ASC, id ASC',
+      { type: QueryTypes.SELECT },
+    ),
+  ])
+  // The current due date of a piece of equipment is that of its latest calibration.
+  const due = new Map<string, string>()
+  for (const c of calibrations) due.set(`${c.equipmentType}:${c.equipmentId}`, c.dueDate)
+  const rows = await sequelize.query<{ itemType: string, itemId: number, dueDate: string, milestone: string }>(
+    `SELECT itemType, itemId, dueDate, milestone FROM reminder_logs WHERE itemType IN ('source', 'reference')`, { type: QueryTypes.SELECT })
+  const loggedWithDue = new Set(rows.map(r => `${r.itemType}:${r.itemId}:${r.dueDate}:${r.milestone}`))
+
+  const items: PlannedItem[] = []
+  const consider = (type: ReminderItemType, list: EquipmentRow[]) => {
+    for (const e of list) {
+      const dueDate = due.get(`${type}:${e.id}`)
+      if (!dueDate) continue
+      const m = equipmentMilestoneOn(dueDate, today, EQUIPMENT_WINDOW_DAYS)
+      if (!m || loggedWithDue.has(`${type}:${e.id}:${dueDate}:${m.key}`)) continue
+      items.push({
+        itemType: type,
+        itemId: e.id,
+        dueDate,
+        milestone: m.key,
+        label: e.assetTag,
+        detail: `${type === 'source' ? 'Blackbody source' : 'Reference instrument'} ${e.maker} ${e.model} (${e.serial})`,
+        dueInWords: dueInWords(m.daysToDue),
+        overdue: m.daysToDue < 0,
+      })
+    }
+  }
+  consider('source', sources)
+  consider('reference', references)
+  if (!items.length) return []
+  const managers = await User.findAll({ where: { role: 'quality', active: true }, order: [['id', 'ASC']] })
+  if (!managers.length) return []
+  items.sort(byDueThenLabel)
+  const hash = itemsHash(items)
+  const messages = managers.map((u) => {
+    const mail = equipmentAlertMail({ lab, userName: u.name, lines: items })
+    return { kind: 'equipment-alert' as const, to: [u.email], ...mail, dedupeKey: `equipment-alert:${u.id}:${today}:${hash}` }
+  })
+  return [{ key: 'equipment', items, messages }]
+}
+
+/** Everything a run on the lab-local date `today` would send. Reads only. */
+export async function planReminders(opts: { today?: IsoDate, now?: Date, settings?: MailSettings } = {}): Promise<ReminderPlan> {
+  const settings = opts.settings ?? await mailSettingsRow()
+  const today = opts.today ?? labLocalDate(opts.now ?? new Date(), settings.timeZone)
+  const lab = await labIdentity()
+  const groups = [
+    ...await planCustomerGroups(today, rulesOf(settings), lab),
+    ...await planEquipmentGroup(today, lab),
+  ]
+  return { today, groups }
+}
+
+export async function previewReminders(opts: { today?: IsoDate, now?: Date } = {}): Promise<ReminderPreviewDTO> {
+  const plan = await planReminders(opts)
+  return {
+    today: plan.today,
+    messages: plan.groups.flatMap(g => g.messages.map(m => ({
+      kind: m.kind,
+      to: m.to,
+      subject: m.subject,
+      items: g.items.map(i => ({ itemType: i.itemType, itemId: i.itemId, label: i.label, detail: i.detail, dueDate: i.dueDate, milestone: i.milestone, dueInWords: i.dueInWords })),
+    }))),
+  }
+}
+
+// ---------------------------------------------------------------- writing
+
+export interface ScanResult {
+  today: IsoDate
+  queued: number
+  logged: number
+  skipped: number
+}
+
+/** Write one group: its messages, then its log rows, in one transaction. False when another run got there first. */
+async function writeGroup(group: PlannedGroup, today: IsoDate): Promise<boolean> {
+  try {
+    await writeTransaction(async (t) => {
+      let first: number | null = null
+      for (const m of group.messages) {
+        const row = await queueMail(t, m)
+        first ??= row.id
+      }
+      // Plain multi-row INSERTs: a first run on a large register logs tens of thousands of rows,
+      // and model instances would cost more than the scan itself.
+      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00').
+      const createdAt = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')
+      for (let i = 0; i < group.items.length; i += LOG_CHUNK) {
+        const chunk = group.items.slice(i, i + LOG_CHUNK)
+        await sequelize.query(
+          `INSERT INTO reminder_logs (itemType, itemId, dueDate, milestone, sentOn, outboxMessageId, createdAt) VALUES ${chunk.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
+          { replacements: chunk.flatMap(item => [item.itemType, item.itemId, item.dueDate, item.milestone, today, first, createdAt]), transaction: t, type: QueryTypes.INSERT },
+        )
+      }
+    })
+    return true
+  }
+  catch (err) {
+    if (err instanceof UniqueConstraintError) return false
+    throw err
+  }
+}
+
+/** Plan and write the reminders for the lab-local date of `now` (or `today`). */
+export async function runReminderScan(opts: { today?: IsoDate, now?: Date } = {}): Promise<ScanResult> {
+  const plan = await planReminders(opts)
+  const result: ScanResult = { today: plan.today, queued: 0, logged: 0, skipped: 0 }
+  for (const group of plan.groups) {
+    if (await writeGroup(group, plan.today)) {
+      result.queued += group.messages.length
+      result.logged += group.items.length
+    }
+    else {
+      result.skipped++
+    }
+  }
+  return result
+}
+
+export interface DailyRunResult {
+  /** False when it is before the configured hour in the lab's time zone (nothing done). */
+  ran: boolean
+  run: ReminderRunDTO | null
+}
+
+/**
+ * The hourly scheduled job: from the configured send hour (lab-local) on, scan and then send.
+ * Later runs the same day find everything logged and send nothing new; `force` ignores the hour
+ * ("run reminders now").
+ */
+export async function runDailyReminders(opts: { now?: Date, force?: boolean, send?: SendOptions } = {}): Promise<DailyRunResult> {
+  const now = opts.now ?? new Date()
+  const settings = await mailSettingsRow()
+  if (!opts.force && labLocalHour(now, settings.timeZone) < settings.sendHour) return { ran: false, run: null }
+  const scan = await runReminderScan({ now })
+  const delivery = await sendQueued({ ...opts.send })
+  return { ran: true, run: { ...scan, delivery } }
+}
+
+// ---------------------------------------------------------------- unsubscribe
+
+/**
+ * Honour an unsubscribe link: the contact it names stops receiving reminders, with an audit
+ * row in the same transaction. Null when the token is not valid or names no contact.
+ */
+export async function unsubscribeByToken(token: string): Promise<{ contact: Contact, changed: boolean } | null> {
+  const id = verifyUnsubscribeToken(token)
+  if (id === null) return null
+  return writeTransaction(async (t) => {
+    const contact = await Contact.findByPk(id, { transaction: t })
+    if (!contact) return null
+    if (!contact.receivesReminders) return { contact, changed: false }
+    const before = snapshot(contact)
+    contact.receivesReminders = false
+    await contact.save({ transaction: t })
+    await recordAudit(t, { userId: null, action: 'unsubscribe', entity: 'Contact', entityId: contact.id, before, after: snapshot(contact) })
+    return { contact, changed: true }
+  })
+}

@@ -1,0 +1,122 @@
+/** Plain JSON for runs, their points and revisions (the DTOs in shared/types/runs.ts). */
+import type { BandInput, RunDTO, RunInstrumentSummary, RunPointDTO, RunRevisionDTO } from '#shared/types'
+import type { CalibrationRun } from '#server/models/CalibrationRun'
+import type { Instrument } from '#server/models/Instrument'
+import type { RunPoint } from '#server/models/RunPoint'
+import type { RunRevision } from '#server/models/RunRevision'
+import type { SpectralResponse } from '#server/models/SpectralResponse'
+
+/** Names and labels a run row shows, looked up once per page. */
+export interface RunNames {
+  instrument?: Instrument | null
+  organizationName?: string | null
+  procedureId?: number | null
+  procedureName?: string | null
+  procedureVersionNumber?: number | null
+  technicianName?: string | null
+  reviewerName?: string | null
+  pointCount?: number
+}
+
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
+
+export function runDTO(r: CalibrationRun, n: RunNames = {}): RunDTO {
+  return {
+    id: r.id,
+    instrumentId: r.instrumentId,
+    instrumentSerial: n.instrument?.serial ?? null,
+    instrumentLabel: n.instrument ? `${n.instrument.maker} ${n.instrument.model}` : null,
+    organizationId: n.instrument?.organizationId ?? null,
+    organizationName: n.organizationName ?? null,
+    procedureId: n.procedureId ?? null,
+    procedureVersionId: r.procedureVersionId,
+    procedureName: n.procedureName ?? null,
+    procedureVersionNumber: n.procedureVersionNumber ?? null,
+    technicianId: r.technicianId,
+    technicianName: n.technicianName ?? null,
+    receivedDate: r.receivedDate,
+    calibrationDate: r.calibrationDate,
+    ambientTemperatureK: r.ambientTemperatureK,
+    relativeHumidityPct: r.relativeHumidityPct,
+    distanceMm: r.distanceMm,
+    emissivitySetting: r.emissivitySetting,
+    reflectedTemperatureK: r.reflectedTemperatureK,
+    instrumentTemperatureK: r.instrumentTemperatureK,
+    adjusted: !!r.adjusted,
+    asLeftEqualsAsFound: !r.adjusted,
+    status: r.status,
+    submittedAt: iso(r.submittedAt),
+    reviewerId: r.reviewerId ?? null,
+    reviewerName: n.reviewerName ?? null,
+    reviewedAt: iso(r.reviewedAt),
+    reviewComments: r.reviewComments ?? null,
+    notes: r.notes ?? null,
+    pointCount: n.pointCount ?? 0,
+    locked: r.status === 'approved',
+    version: r.version,
+    createdAt: r.createdAt.toISOString(),
+    updatedAt: r.updatedAt.toISOString(),
+  }
+}
+
+/** The band of an instrument: its rectangular λ1–λ2, or its stored responsivity table. */
+export function instrumentBand(i: Instrument, table: SpectralResponse | null): BandInput | null {
+  if (i.bandLambda1Um != null && i.bandLambda2Um != null) return { kind: 'rectangular', lambda1Um: i.bandLambda1Um, lambda2Um: i.bandLambda2Um }
+  if (table) return { kind: 'tabulated', points: table.points }
+  return null
+}
+
+export function instrumentSummary(i: Instrument, band: BandInput, table: SpectralResponse | null, organizationName: string | null): RunInstrumentSummary {
+  return {
+    id: i.id,
+    serial: i.serial,
+    assetTag: i.assetTag ?? null,
+    maker: i.maker,
+    model: i.model,
+    organizationId: i.organizationId,
+    organizationName,
+    band,
+    bandLabel: band.kind === 'rectangular' ? `${band.lambda1Um}–${band.lambda2Um} µm` : (table?.name ?? 'Tabulated responsivity'),
+    accuracy: i.accuracy,
+    resolutionK: i.resolutionK,
+    rangeMinK: i.rangeMinK,
+    rangeMaxK: i.rangeMaxK,
+    defaultEmissivity: i.defaultEmissivity,
+  }
+}
+
+export function runPointDTO(p: RunPoint, tags: { source?: string | null, reference?: string | null } = {}): RunPointDTO {
+  return {
+    id: p.id,
+    runId: p.runId,
+    seq: p.seq,
+    stage: p.stage,
+    sourceId: p.sourceId,
+    sourceAssetTag: tags.source ?? null,
+    referenceInstrumentId: p.referenceInstrumentId ?? null,
+    referenceAssetTag: tags.reference ?? null,
+    setPointK: p.setPointK,
+    sourceIndicatedK: p.sourceIndicatedK ?? null,
+    referenceReadingK: p.referenceReadingK ?? null,
+    readingsK: p.readingsK,
+    result: p.result,
+    monteCarlo: p.monteCarlo ?? null,
+    version: p.version,
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+  }
+}
+
+export function runRevisionDTO(r: RunRevision, userName: string | null): RunRevisionDTO {
+  return {
+    id: r.id,
+    runId: r.runId,
+    pointId: r.pointId ?? null,
+    userId: r.userId,
+    userName,
+    at: r.at.toISOString(),
+    reason: r.reason,
+    before: r.before,
+    after: r.after,
+  }
+}

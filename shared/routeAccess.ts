@@ -1,0 +1,128 @@
+/**
+ * The route matrix: every API route and the permission it requires (or `open` for the few routes
+ * that answer without a session). With the policy in ./permissions.ts it says, for every route and
+ * every role, what the server must answer: 403 for a role without the permission, 401 for anyone
+ * without a session on a closed route. The access test (tests/api/access.test.ts) enumerates the
+ * route files and checks each against this table; a route missing here fails the test.
+ * Keys are `METHOD path` with path parameters as in the file names (`[id]`).
+ */
+import type { Permission } from './permissions'
+
+export const ROUTE_ACCESS = {
+  'POST /api/auth/login': 'open',
+  'POST /api/auth/logout': 'account:self',
+  'GET /api/auth/me': 'account:self',
+  'GET /api/health': 'open',
+  'GET /api/verify': 'open',
+  'POST /api/verify/file': 'open',
+  'GET /api/mail/unsubscribe': 'open',
+
+  'POST /api/calculations/band-radiance': 'calculation:run',
+  'POST /api/calculations/temperature': 'calculation:run',
+  'POST /api/calculations/expected-reading': 'calculation:run',
+  'POST /api/calculations/budget': 'calculation:run',
+  'POST /api/calculations/conformity': 'calculation:run',
+  'POST /api/calculations/monte-carlo': 'calculation:run',
+  'POST /api/calculations/monte-carlo/jobs': 'calculation:run',
+  'GET /api/calculations/monte-carlo/jobs/[id]': 'calculation:run',
+
+  'GET /api/instruments': 'instrument:read',
+  'POST /api/instruments': 'instrument:edit',
+  'GET /api/instruments/export': 'instrument:export',
+  'POST /api/instruments/import': 'instrument:edit',
+  'GET /api/instruments/[id]': 'instrument:read',
+  'PATCH /api/instruments/[id]': 'instrument:edit',
+  'POST /api/instruments/[id]/archive': 'instrument:edit',
+  'GET /api/instruments/[id]/history': 'instrument:read',
+
+  'GET /api/customers': 'customer:read',
+  'POST /api/customers': 'customer:edit',
+  'GET /api/customers/export': 'customer:read',
+  'POST /api/customers/import': 'customer:edit',
+  'GET /api/customers/[id]': 'customer:read',
+  'PATCH /api/customers/[id]': 'customer:edit',
+  'POST /api/customers/[id]/contacts': 'customer:edit',
+  'PATCH /api/contacts/[id]': 'customer:edit',
+
+  'GET /api/responsivities': 'responsivity:read',
+  'POST /api/responsivities': 'responsivity:edit',
+  'GET /api/responsivities/[id]': 'responsivity:read',
+
+  'GET /api/sources': 'equipment:read',
+  'POST /api/sources': 'equipment:edit',
+  'GET /api/sources/export': 'equipment:read',
+  'POST /api/sources/import': 'equipment:edit',
+  'GET /api/sources/[id]': 'equipment:read',
+  'PATCH /api/sources/[id]': 'equipment:edit',
+  'POST /api/sources/[id]/archive': 'equipment:edit',
+  'POST /api/sources/[id]/calibrations': 'equipment:edit',
+  'GET /api/sources/[id]/correction': 'equipment:read',
+  'GET /api/reference-instruments': 'equipment:read',
+  'POST /api/reference-instruments': 'equipment:edit',
+  'GET /api/reference-instruments/export': 'equipment:read',
+  'POST /api/reference-instruments/import': 'equipment:edit',
+  'GET /api/reference-instruments/[id]': 'equipment:read',
+  'PATCH /api/reference-instruments/[id]': 'equipment:edit',
+  'POST /api/reference-instruments/[id]/archive': 'equipment:edit',
+  'POST /api/reference-instruments/[id]/calibrations': 'equipment:edit',
+
+  'GET /api/uploads/[id]': 'upload:read',
+  'POST /api/uploads': 'upload:create',
+
+  'GET /api/procedures': 'procedure:read',
+  'POST /api/procedures': 'procedure:edit',
+  'GET /api/procedures/[id]': 'procedure:read',
+  'PATCH /api/procedures/[id]': 'procedure:edit',
+
+  'GET /api/runs': 'run:read',
+  'POST /api/runs': 'run:edit',
+  'GET /api/runs/[id]': 'run:read',
+  'PATCH /api/runs/[id]': 'run:edit',
+  'POST /api/runs/[id]/points': 'run:edit',
+  'POST /api/runs/[id]/points/import': 'run:edit',
+  'PATCH /api/runs/[id]/points/[pointId]': 'run:edit',
+  'POST /api/runs/[id]/points/[pointId]/monte-carlo': 'run:edit',
+  'POST /api/runs/[id]/submit': 'run:edit',
+  'POST /api/runs/[id]/return': 'run:review',
+  'POST /api/runs/[id]/approve': 'run:review',
+
+  'GET /api/requests': 'request:read',
+  'POST /api/requests': 'request:create',
+  'GET /api/requests/[id]': 'request:read',
+  'POST /api/requests/[id]/accept': 'request:handle',
+  'POST /api/requests/[id]/decline': 'request:handle',
+
+  'GET /api/certificates': 'certificate:read',
+  'POST /api/certificates': 'certificate:sign',
+  'GET /api/certificates/[id]': 'certificate:read',
+  'GET /api/certificates/[id]/pdf': 'certificate:read',
+  'POST /api/certificates/[id]/amend': 'certificate:sign',
+  'POST /api/certificates/[id]/withdraw': 'certificate:sign',
+
+  'GET /api/settings/lab': 'settings:read',
+  'PATCH /api/settings/lab': 'settings:edit',
+
+  'GET /api/admin/users': 'user:manage',
+  'POST /api/admin/users': 'user:manage',
+  'PATCH /api/admin/users/[id]': 'user:manage',
+  'POST /api/admin/users/[id]/active': 'user:manage',
+  'POST /api/admin/users/[id]/password': 'user:manage',
+  'GET /api/admin/organizations': 'organization:manage',
+  'POST /api/admin/organizations': 'organization:manage',
+  'PATCH /api/admin/organizations/[id]': 'organization:manage',
+  'GET /api/admin/audit': 'audit:read',
+  'GET /api/admin/mail/outbox': 'mail:manage',
+  'POST /api/admin/mail/outbox/[id]/requeue': 'mail:manage',
+  'GET /api/admin/mail/received': 'mail:manage',
+  'GET /api/admin/mail/settings': 'mail:manage',
+  'PATCH /api/admin/mail/settings': 'mail:manage',
+  'GET /api/admin/mail/reminders/preview': 'mail:manage',
+  'POST /api/admin/mail/reminders/run': 'mail:manage',
+} as const satisfies Record<string, Permission | 'open'>
+
+export type RouteKey = keyof typeof ROUTE_ACCESS
+
+/** The paths of the routes that answer without a session (the session middleware lets them through). */
+export const OPEN_API_PATHS: readonly string[] = Object.entries(ROUTE_ACCESS)
+  .filter(([, p]) => p === 'open')
+  .map(([k]) => k.split(' ')[1]!)
