@@ -100,6 +100,7 @@ export const ROUTE_ACCESS = {
   'POST /api/certificates/[id]/withdraw': 'certificate:sign',
 
   'GET /api/settings/lab': 'settings:read',
+  'GET /api/settings/today': 'account:self',
   'PATCH /api/settings/lab': 'settings:edit',
 
   'GET /api/admin/users': 'user:manage',

@@ -9,6 +9,7 @@ import * as m0004 from './0004-certificates'
 import * as m0005 from './0005-mail'
 import * as m0006 from './0006-requests'
 import * as m0007 from './0007-sessions-throttles'
+import * as m0008 from './0008-lab-time-zone'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -18,4 +19,5 @@ export const migrations = [
   { name: '0005-mail', ...m0005 },
   { name: '0006-requests', ...m0006 },
   { name: '0007-sessions-throttles', ...m0007 },
+  { name: '0008-lab-time-zone', ...m0008 },
 ]

@@ -26,6 +26,8 @@ export class LabSettings extends Model<InferAttributes<LabSettings>, InferCreati
   declare decisionRuleStatement: string
   declare itemsStatement: string
   declare reproductionStatement: string | null
+  /** IANA time zone of the laboratory: its "today" for due dates, reminders and form defaults. */
+  declare timeZone: CreationOptional<string>
   declare version: CreationOptional<number>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -51,6 +53,7 @@ LabSettings.init(
     decisionRuleStatement: { type: DataTypes.TEXT, allowNull: false },
     itemsStatement: { type: DataTypes.TEXT, allowNull: false },
     reproductionStatement: { type: DataTypes.TEXT, allowNull: true },
+    timeZone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: 'Europe/London' },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,

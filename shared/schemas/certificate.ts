@@ -4,6 +4,7 @@
  */
 import { z } from 'zod'
 import { CERTIFICATE_STATUSES } from '../certificates/constants'
+import { isValidTimeZone } from '../mail/milestones'
 import { pageQuerySchema, text, versionSchema } from './common'
 import { optionalText } from './registerQuery'
 
@@ -32,6 +33,7 @@ const settingsFields = z.object({
   decisionRuleStatement: text(2000, 'decisionRuleStatement'),
   itemsStatement: text(600, 'itemsStatement'),
   reproductionStatement: optionalText(600),
+  timeZone: z.string({ error: 'Time zone is required' }).trim().refine(isValidTimeZone, 'Not a time zone (use a name such as Europe/London)'),
 })
 
 /** PATCH /api/settings/lab: any subset of the settings, with the version last seen. */

@@ -25,8 +25,16 @@ export interface LabSettingsDTO {
   decisionRuleStatement: string
   itemsStatement: string
   reproductionStatement: string | null
+  /** IANA time zone of the laboratory (its "today"). */
+  timeZone: string
   version: number
   updatedAt: string
+}
+
+/** The laboratory's date today, in its own time zone (GET /api/settings/today). */
+export interface LabTodayDTO {
+  today: string
+  timeZone: string
 }
 
 export interface CertificateDTO {

@@ -22,7 +22,8 @@ const reminders = await import('../../server/services/reminders/reminders')
 const outbox = await import('../../server/services/mail/outbox')
 const { closeMailTransport } = await import('../../server/services/mail/transport')
 const { resetConfig } = await import('../../server/utils/config')
-const { Organization, Contact, Instrument, User, OutboxMessage, ReminderLog, AuditEvent, BlackbodySource, EquipmentCalibration, MailSettings } = models
+const { forgetLabTimeZone } = await import('../../server/services/settings/today')
+const { Organization, Contact, Instrument, User, OutboxMessage, ReminderLog, AuditEvent, BlackbodySource, EquipmentCalibration, LabSettings } = models
 
 // 06:30 in London (GMT in March) on 2027-03-01: the send hour (6) has come.
 const NOW = new Date('2027-03-01T06:30:00Z')
@@ -207,7 +208,12 @@ describe('the reminder scan', () => {
   })
 
   it('takes the lab date in the configured time zone', async () => {
-    const row = await MailSettings.findByPk(1)
+    // The time zone is the laboratory's (lab settings), one "today" for everything.
+    const row = await LabSettings.findOne() ?? await LabSettings.create({
+      name: 'Integration Lab', addressLines: '1 Test Yard', city: 'Testbury', postcode: null, country: 'United Kingdom', email: null, phone: null,
+      accreditationBody: 'Test Body', accreditationNumber: 'T-1', numberPrefix: 'IT', numberIncludesYear: true, numberDigits: 5,
+      signatoryFunctions: ['Quality manager'], traceabilityStatement: 'x', decisionRuleStatement: 'x', itemsStatement: 'x', reproductionStatement: null,
+    })
     // 11:30 UTC on 1 March is 00:30 on 2 March in Auckland (NZDT, UTC+13).
     const instant = new Date('2027-03-01T11:30:00Z')
     const probe = await instrument(ids.glass!, '2027-03-09')
@@ -217,6 +223,7 @@ describe('the reminder scan', () => {
     expect(item(london)?.milestone).toBe('lead-30') // 8 days
     row!.timeZone = 'Pacific/Auckland'
     await row!.save()
+    forgetLabTimeZone()
     try {
       const auckland = await reminders.previewReminders({ now: instant })
       expect(auckland.today).toBe('2027-03-02')
@@ -225,6 +232,7 @@ describe('the reminder scan', () => {
     finally {
       row!.timeZone = 'Europe/London'
       await row!.save()
+      forgetLabTimeZone()
       await probe.update({ archived: true })
     }
   })

@@ -41,6 +41,7 @@ import { notifyCertificateIssued } from '#server/services/mail/events'
 import { publicBaseUrl } from '#server/utils/publicUrl'
 import { passwordMatches } from '#server/utils/password'
 import { labSettingsRow, numberFormat } from '#server/services/settings/labSettings'
+import { labToday } from '#server/services/settings/today'
 import { inTransaction } from '#server/utils/transaction'
 
 /**
@@ -225,7 +226,7 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
   const settings = await labSettingsRow(t)
   const fn = assertSignatoryFunction(settings, signer.signatoryFunction)
   const issuedAt = new Date()
-  const issueDate = issuedAt.toISOString().slice(0, 10)
+  const issueDate = await labToday(issuedAt, t)
   const g = await gather(t, settings, run, issueDate)
   const format = numberFormat(settings)
   const year = counterYear(format, issuedAt.getUTCFullYear())
@@ -290,7 +291,7 @@ export async function amendCertificateIn(t: Transaction, signer: Signer, id: num
   const run = await CalibrationRun.findByPk(old.runId, { transaction: t })
   if (!run) notFound('run')
   const issuedAt = new Date()
-  const issueDate = issuedAt.toISOString().slice(0, 10)
+  const issueDate = await labToday(issuedAt, t)
   const g = await gather(t, settings, run, issueDate)
   const revision = ((await Certificate.max<number, Certificate>('revision', { where: { baseNumber: old.baseNumber }, transaction: t })) ?? 0) + 1
   const number = revisionNumber(old.baseNumber, revision)

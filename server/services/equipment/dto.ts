@@ -1,5 +1,5 @@
 /** Plain JSON for blackbody sources, reference instruments and their calibrations (shared/types/registers.ts). */
-import { isPastDue, todayISO } from '#shared/registers/dates'
+import { isPastDue } from '#shared/registers/dates'
 import type { BlackbodySourceDTO, EquipmentCalibrationDTO, ReferenceInstrumentDTO } from '#shared/types'
 import type { BlackbodySource } from '#server/models/BlackbodySource'
 import type { EquipmentCalibration } from '#server/models/EquipmentCalibration'
@@ -42,7 +42,7 @@ function equipmentCommon(e: BlackbodySource | ReferenceInstrument, latest: Equip
 }
 
 /** A source with its current due date, from its latest calibration (`latest`, if any). */
-export function sourceDTO(s: BlackbodySource, latest?: EquipmentCalibration, today = todayISO()): BlackbodySourceDTO {
+export function sourceDTO(s: BlackbodySource, latest: EquipmentCalibration | undefined, today: string): BlackbodySourceDTO {
   return {
     ...equipmentCommon(s, latest, today),
     kind: s.kind,
@@ -59,7 +59,7 @@ export function sourceDTO(s: BlackbodySource, latest?: EquipmentCalibration, tod
   }
 }
 
-export function referenceInstrumentDTO(r: ReferenceInstrument, latest?: EquipmentCalibration, today = todayISO()): ReferenceInstrumentDTO {
+export function referenceInstrumentDTO(r: ReferenceInstrument, latest: EquipmentCalibration | undefined, today: string): ReferenceInstrumentDTO {
   return {
     ...equipmentCommon(r, latest, today),
     kind: r.kind,

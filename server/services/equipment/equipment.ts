@@ -8,7 +8,6 @@ import { createError, type H3Event } from 'h3'
 import { literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
 import type { z } from 'zod'
 import type { EquipmentType } from '#shared/registers/constants'
-import { todayISO } from '#shared/registers/dates'
 import type { CalibrationCreateInput } from '#shared/schemas/calibration'
 import type { ArchiveInput, CsvImportInput, ReferenceQuery, SourceQuery } from '#shared/schemas/registerQuery'
 import { referenceCreateSchema } from '#shared/schemas/referenceInstrument'
@@ -19,13 +18,14 @@ import { EquipmentCalibration } from '#server/models/EquipmentCalibration'
 import { ReferenceInstrument } from '#server/models/ReferenceInstrument'
 import { Upload } from '#server/models/Upload'
 import { notFound, invalidInput, assertVersion } from '#server/utils/errors'
-import { recordAudit, snapshot } from '#server/utils/audit'
+import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from '#server/utils/csv'
 import { calibrationDTO, referenceInstrumentDTO, sourceDTO } from './dto'
 import { auditTrail } from '#server/services/audit/trail'
 import { calibrationsOf, dueDateSql } from './calibrations'
 import { changes, checkMerged } from '#server/utils/validation'
 import { ListFilter } from '#server/utils/search'
+import { labToday } from '#server/services/settings/today'
 import { inTransaction } from '#server/utils/transaction'
 
 type EquipmentRow = BlackbodySource | ReferenceInstrument
@@ -40,7 +40,7 @@ interface EquipmentRegister<R extends EquipmentRow, D> {
   importColumns: CsvColumns
   exportColumns: readonly string[]
   file: string
-  dto: (row: R, latest?: EquipmentCalibration, today?: string) => D
+  dto: (row: R, latest: EquipmentCalibration | undefined, today: string) => D
 }
 
 const SOURCE_IMPORT: CsvColumns = {
@@ -101,7 +101,7 @@ function listOrder<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, sort
 
 async function withLatest<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, rows: R[]): Promise<D[]> {
   const cals = await calibrationsOf(reg.type, rows.map(r => r.id))
-  const today = todayISO()
+  const today = await labToday()
   return rows.map(r => reg.dto(r, cals.get(r.id)?.[0], today))
 }
 
@@ -119,7 +119,7 @@ export async function equipmentDetail<R extends EquipmentRow, D>(reg: EquipmentR
   if (!row) notFound(reg.label)
   const calibrations = (await calibrationsOf(reg.type, [id])).get(id) ?? []
   return {
-    ...reg.dto(row, calibrations[0]),
+    ...reg.dto(row, calibrations[0], await labToday()),
     calibrations: calibrations.map(calibrationDTO),
     audit: await auditTrail(reg.entity, id),
   }
@@ -131,7 +131,7 @@ export async function createEquipment<R extends EquipmentRow, D>(reg: EquipmentR
     await recordAudit(t, { userId: user.id, action: 'create', entity: reg.entity, entityId: created.id, after: snapshot(created) })
     return created
   })
-  return reg.dto(row)
+  return reg.dto(row, undefined, await labToday())
 }
 
 export async function updateEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: { version: number } & Record<string, unknown>): Promise<D> {
@@ -139,17 +139,13 @@ export async function updateEquipment<R extends EquipmentRow, D>(reg: EquipmentR
     const row = await reg.model.findByPk(id, { transaction: t })
     if (!row) notFound(reg.label)
     assertVersion(row.version, input.version)
-    const before = snapshot(row)
-    const { id: _id, version: _v, archived: _a, createdAt: _c, updatedAt: _u, ...stored } = before
+    const { id: _id, version: _v, archived: _a, createdAt: _c, updatedAt: _u, ...stored } = snapshot(row)
     const merged = checkMerged(reg.createSchema, { ...stored, ...changes(input) }) as Record<string, unknown>
-    row.set(merged as never)
-    if (!row.changed()) return row
-    await row.save({ transaction: t })
-    await recordAudit(t, { userId: user.id, action: 'update', entity: reg.entity, entityId: row.id, before, after: snapshot(row) })
+    await updateAudited(t, user, row, merged as never, { entity: reg.entity })
     return row
   })
   const cals = await calibrationsOf(reg.type, [id])
-  return reg.dto(row, cals.get(id)?.[0])
+  return reg.dto(row, cals.get(id)?.[0], await labToday())
 }
 
 export async function archiveEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: ArchiveInput): Promise<D> {
@@ -157,15 +153,11 @@ export async function archiveEquipment<R extends EquipmentRow, D>(reg: Equipment
     const row = await reg.model.findByPk(id, { transaction: t })
     if (!row) notFound(reg.label)
     assertVersion(row.version, input.version)
-    if (!!row.archived === input.archived) return row
-    const before = snapshot(row)
-    row.set({ archived: input.archived } as never)
-    await row.save({ transaction: t })
-    await recordAudit(t, { userId: user.id, action: input.archived ? 'archive' : 'restore', entity: reg.entity, entityId: row.id, before, after: snapshot(row) })
+    await updateAudited(t, user, row, { archived: input.archived } as never, { entity: reg.entity, action: input.archived ? 'archive' : 'restore' })
     return row
   })
   const cals = await calibrationsOf(reg.type, [id])
-  return reg.dto(row, cals.get(id)?.[0])
+  return reg.dto(row, cals.get(id)?.[0], await labToday())
 }
 
 export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibrationDTO> {

@@ -1,9 +1,9 @@
 /** Plain JSON for customers' instruments (shared/types/registers.ts). */
-import { isPastDue, todayISO } from '#shared/registers/dates'
+import { isPastDue } from '#shared/registers/dates'
 import type { InstrumentDTO } from '#shared/types'
 import type { Instrument } from '#server/models/Instrument'
 
-export function instrumentDTO(i: Instrument, names: { organization?: string | null, spectralResponse?: string | null } = {}, today = todayISO()): InstrumentDTO {
+export function instrumentDTO(i: Instrument, names: { organization?: string | null, spectralResponse?: string | null } = {}, today: string): InstrumentDTO {
   return {
     id: i.id,
     organizationId: i.organizationId,

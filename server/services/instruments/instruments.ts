@@ -5,7 +5,6 @@
  */
 import type { H3Event } from 'h3'
 import { Op, type Transaction } from 'sequelize'
-import { todayISO } from '#shared/registers/dates'
 import { instrumentCreateSchema, type InstrumentCreateInput, type InstrumentUpdateInput } from '#shared/schemas/instrument'
 import type { ArchiveInput, CsvImportInput, InstrumentQuery } from '#shared/schemas/registerQuery'
 import type { ImportPreview, ImportResult, InstrumentDTO, InstrumentDetailDTO, Page, SessionUser } from '#shared/types'
@@ -18,6 +17,7 @@ import { organizationScope } from '#server/utils/access'
 import { changes, checkMerged } from '#server/utils/validation'
 import { auditTrail } from '#server/services/audit/trail'
 import { spectralResponseDTO } from '#server/services/responsivities/dto'
+import { labToday } from '#server/services/settings/today'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from '#server/utils/csv'
 import { instrumentFilter, instrumentOrder, queryInstruments } from './query'
 import { instrumentDTO } from './dto'
@@ -55,7 +55,7 @@ export async function instrumentNames(rows: readonly Instrument[]): Promise<(i: 
 
 export async function instrumentDTOs(rows: Instrument[]): Promise<InstrumentDTO[]> {
   const names = await instrumentNames(rows)
-  const today = todayISO()
+  const today = await labToday()
   return rows.map(r => instrumentDTO(r, names(r), today))
 }
 

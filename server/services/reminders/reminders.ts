@@ -41,6 +41,7 @@ import { unsubscribeUrl, verifyUnsubscribeToken } from '#server/services/mail/to
 import { equipmentAlertMail, labIdentity, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
 import { queueMail, sendQueued, type SendOptions } from '#server/services/mail/outbox'
 import { mailSettingsRow } from '#server/services/mail/settings'
+import { labTimeZone } from '#server/services/settings/today'
 
 /** Reference equipment is reported this many days before its due date. */
 export const EQUIPMENT_WINDOW_DAYS = 30
@@ -234,7 +235,7 @@ async function planEquipmentGroup(today: IsoDate, lab: LabIdentity): Promise<Pla
 /** Everything a run on the lab-local date `today` would send. Reads only. */
 export async function planReminders(opts: { today?: IsoDate, now?: Date, settings?: MailSettings } = {}): Promise<ReminderPlan> {
   const settings = opts.settings ?? await mailSettingsRow()
-  const today = opts.today ?? labLocalDate(opts.now ?? new Date(), settings.timeZone)
+  const today = opts.today ?? labLocalDate(opts.now ?? new Date(), await labTimeZone())
   const lab = await labIdentity()
   const groups = [
     ...await planCustomerGroups(today, rulesOf(settings), lab),
@@ -324,7 +325,7 @@ export interface DailyRunResult {
 export async function runDailyReminders(opts: { now?: Date, force?: boolean, send?: SendOptions } = {}): Promise<DailyRunResult> {
   const now = opts.now ?? new Date()
   const settings = await mailSettingsRow()
-  if (!opts.force && labLocalHour(now, settings.timeZone) < settings.sendHour) return { ran: false, run: null }
+  if (!opts.force && labLocalHour(now, await labTimeZone()) < settings.sendHour) return { ran: false, run: null }
   const scan = await runReminderScan({ now })
   const delivery = await sendQueued({ ...opts.send })
   return { ran: true, run: { ...scan, delivery } }

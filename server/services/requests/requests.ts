@@ -13,7 +13,7 @@ import { Organization } from '#server/models/Organization'
 import { User } from '#server/models/User'
 import { notFound, invalidInput, assertVersion } from '#server/utils/errors'
 import { organizationScope } from '#server/utils/access'
-import { recordAudit, snapshot } from '#server/utils/audit'
+import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { notifyRequestAccepted, notifyRequestReceived } from '#server/services/mail/events'
 import { createRunIn } from '#server/services/runs/runs'
 import { inTransaction } from '#server/utils/transaction'
@@ -124,10 +124,7 @@ export async function declineRequestIn(t: Transaction, user: SessionUser, id: nu
   const r = await findRequest(user, id, t)
   assertVersion(r.version, input.version)
   assertOpen(r)
-  const before = snapshot(r)
-  r.set({ status: 'declined', handledBy: user.id, handledAt: new Date(), response: input.response })
-  await r.save({ transaction: t })
-  await recordAudit(t, { userId: user.id, action: 'decline', entity: 'CalibrationRequest', entityId: r.id, before, after: snapshot(r) })
+  await updateAudited(t, user, r, { status: 'declined', handledBy: user.id, handledAt: new Date(), response: input.response }, { entity: 'CalibrationRequest', action: 'decline' })
   return r
 }
 

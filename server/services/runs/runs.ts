@@ -27,7 +27,7 @@ import { RunRevision } from '#server/models/RunRevision'
 import { SpectralResponse } from '#server/models/SpectralResponse'
 import { User } from '#server/models/User'
 import { notFound, engine, invalidInput, assertVersion } from '#server/utils/errors'
-import { recordAudit, snapshot } from '#server/utils/audit'
+import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { cellsToInput, previewOf, readCsvRecords, refuseUnlessAllValid, withCsvShape, type CheckedRow, type CsvColumns } from '#server/utils/csv'
 import { assertUsableOn } from '#server/services/equipment/usability'
 import { procedureVersionDTO } from '#server/services/procedures/procedures'
@@ -504,10 +504,7 @@ export async function submitRunIn(t: Transaction, actor: Actor, id: number, inpu
   if (run.adjusted && !(stages.has('as-found') && stages.has('as-left'))) {
     invalidInput({ points: 'An adjusted run needs both as-found and as-left points before it is submitted' })
   }
-  const before = snapshot(run)
-  run.set({ status: 'submitted', submittedAt: new Date() })
-  await run.save({ transaction: t })
-  await recordAudit(t, { userId: actor.id, action: auditAction, entity: 'CalibrationRun', entityId: run.id, before, after: snapshot(run) })
+  await updateAudited(t, actor, run, { status: 'submitted', submittedAt: new Date() }, { entity: 'CalibrationRun', action: auditAction })
   return run
 }
 
@@ -520,10 +517,7 @@ export async function approveRunIn(t: Transaction, actor: Actor, id: number, inp
   if (run.technicianId === actor.id) {
     throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'The person who performed a run cannot approve it: another quality manager must review it' })
   }
-  const before = snapshot(run)
-  run.set({ status: 'approved', reviewerId: actor.id, reviewedAt: new Date() })
-  await run.save({ transaction: t })
-  await recordAudit(t, { userId: actor.id, action: auditAction, entity: 'CalibrationRun', entityId: run.id, before, after: snapshot(run) })
+  await updateAudited(t, actor, run, { status: 'approved', reviewerId: actor.id, reviewedAt: new Date() }, { entity: 'CalibrationRun', action: auditAction })
   return run
 }
 
@@ -533,10 +527,7 @@ export async function returnRunIn(t: Transaction, actor: Actor, id: number, inpu
   assertWritable(run)
   assertVersion(run.version, input.version)
   if (run.status !== 'submitted') conflict('Only a submitted run can be returned')
-  const before = snapshot(run)
-  run.set({ status: 'returned', reviewerId: actor.id, reviewedAt: new Date(), reviewComments: input.comments })
-  await run.save({ transaction: t })
-  await recordAudit(t, { userId: actor.id, action: auditAction, entity: 'CalibrationRun', entityId: run.id, before, after: snapshot(run) })
+  await updateAudited(t, actor, run, { status: 'returned', reviewerId: actor.id, reviewedAt: new Date(), reviewComments: input.comments }, { entity: 'CalibrationRun', action: auditAction })
   return run
 }
 

@@ -9,6 +9,7 @@ import { recordAudit, snapshot } from '#server/utils/audit'
 import { checkMerged } from '#server/utils/validation'
 import { assertVersion } from '#server/utils/errors'
 import { inTransaction } from '#server/utils/transaction'
+import { forgetLabTimeZone } from './today'
 
 /** The laboratory's settings row; 409 when it was never set up (the demo seed and an admin create it). */
 export async function labSettingsRow(t?: Transaction): Promise<LabSettings> {
@@ -39,6 +40,7 @@ export function labSettingsDTO(s: LabSettings): LabSettingsDTO {
     decisionRuleStatement: s.decisionRuleStatement,
     itemsStatement: s.itemsStatement,
     reproductionStatement: s.reproductionStatement ?? null,
+    timeZone: s.timeZone,
     version: s.version,
     updatedAt: s.updatedAt.toISOString(),
   }
@@ -68,5 +70,7 @@ export async function labSettings(): Promise<LabSettingsDTO> {
 }
 
 export async function updateLabSettings(actor: SessionUser, input: LabSettingsUpdateInput): Promise<LabSettingsDTO> {
-  return labSettingsDTO(await inTransaction(t => updateLabSettingsIn(t, actor, input)))
+  const row = await inTransaction(t => updateLabSettingsIn(t, actor, input))
+  forgetLabTimeZone()
+  return labSettingsDTO(row)
 }
