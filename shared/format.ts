@@ -16,3 +16,66 @@ export function describeBand(b: { bandLambda1Um: number | null, bandLambda2Um: n
   if (b.bandLambda1Um !== null && b.bandLambda2Um !== null) return `${b.bandLambda1Um}–${b.bandLambda2Um} µm`
   return b.spectralResponseName ? `table: ${b.spectralResponseName}` : '—'
 }
+
+/**
+ * A kelvin value as Celsius, computed in whole micro-kelvins so that 373.15 K is exactly 100 °C
+ * (not 100.00000000000003 from the binary difference). ITS-90: t/°C = T/K − 273.15.
+ * @example kelvinToCelsius(373.15) === 100
+ */
+export function kelvinToCelsius(kelvin: number): number {
+  return (Math.round(kelvin * 1e6) - 273_150_000) / 1e6
+}
+
+/** "100 °C", "−18.5 °C": a kelvin value in Celsius with up to `maxDecimals` decimals and a typographic minus. */
+export function kelvinToCelsiusText(kelvin: number, maxDecimals = 2): string {
+  return `${typographicMinus(String(+kelvinToCelsius(kelvin).toFixed(maxDecimals)))} °C`
+}
+
+/** Hyphen-minus signs replaced by the typographic minus (U+2212) in a rendered number. */
+export function typographicMinus(text: string): string {
+  return text.replace(/(^|[\s(±])-(?=\d)/g, '$1\u2212')
+}
+
+/**
+ * A number rounded to `decimals` places in decimal, half away from zero, as text — the value is
+ * first written with 15 significant digits (what a double holds faithfully), so 99.95 rounds to
+ * 100.0 at one decimal, as on paper, not to 99.9 as its binary expansion 99.9499… would.
+ * @example formatFixed(99.95, 1) === '100.0'; formatFixed(-0.04, 1) === '0.0'
+ */
+export function formatFixed(value: number, decimals: number): string {
+  if (!Number.isFinite(value)) return String(value)
+  const neg = value < 0
+  const [mant, expPart] = Math.abs(value).toPrecision(15).split('e')
+  let [int, frac = ''] = mant!.split('.')
+  const exp = Number(expPart ?? 0)
+  // Shift the decimal point by the exponent.
+  let digits = int! + frac
+  let point = int!.length + exp
+  if (point < 0) {
+    digits = '0'.repeat(-point) + digits
+    point = 0
+  }
+  if (point > digits.length) digits = digits + '0'.repeat(point - digits.length)
+  int = digits.slice(0, point) || '0'
+  frac = digits.slice(point)
+  // Round at `decimals` places, half away from zero.
+  const keep = (int + frac.padEnd(decimals, '0').slice(0, decimals)).split('').map(Number)
+  if ((frac[decimals] ?? '0') >= '5') {
+    let i = keep.length - 1
+    while (i >= 0) {
+      if (keep[i]! < 9) { keep[i]!++; break }
+      keep[i] = 0
+      i--
+    }
+    if (i < 0) keep.unshift(1)
+  }
+  const all = keep.join('')
+  const intPart = all.slice(0, all.length - decimals).replace(/^0+(?=\d)/, '') || '0'
+  const text = decimals > 0 ? `${intPart}.${all.slice(all.length - decimals)}` : intPart
+  return neg && /[1-9]/.test(text) ? `-${text}` : text
+}
+
+/** A kelvin value in Celsius to `decimals` places (computed in decimal), with a typographic minus. */
+export function celsiusFixed(kelvin: number, decimals: number): string {
+  return typographicMinus(formatFixed(kelvinToCelsius(kelvin), decimals))
+}

@@ -40,12 +40,16 @@ export const PERMISSIONS = {
   'run:review': ['quality'],
   'request:read': ROLES,
   'request:create': ['customer'],
+  /** Agree, in the portal, to the terms the laboratory offered. */
+  'request:agree': ['customer'],
   /** Review, accept or decline a customer's request. */
   'request:handle': LAB_ROLES,
 
   'certificate:read': ROLES,
   /** Sign and issue, amend, withdraw. */
   'certificate:sign': ['quality'],
+  /** Reopen an issued certificate's run for correction (a new revision of the run). */
+  'certificate:reopen': ['quality'],
 
   'settings:read': LAB_ROLES,
   'settings:edit': ['admin'],

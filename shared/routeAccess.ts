@@ -83,12 +83,19 @@ export const ROUTE_ACCESS = {
   'PATCH /api/runs/[id]/points/[pointId]': 'run:edit',
   'POST /api/runs/[id]/points/[pointId]/monte-carlo': 'run:edit',
   'POST /api/runs/[id]/submit': 'run:edit',
+  'POST /api/runs/[id]/void': 'run:edit',
+  'POST /api/runs/[id]/receipt': 'run:edit',
+  'POST /api/runs/[id]/points/[pointId]/void': 'run:edit',
+  'GET /api/runs/[id]/certificate-preview': 'run:read',
   'POST /api/runs/[id]/return': 'run:review',
   'POST /api/runs/[id]/approve': 'run:review',
 
   'GET /api/requests': 'request:read',
   'POST /api/requests': 'request:create',
   'GET /api/requests/[id]': 'request:read',
+  'POST /api/requests/[id]/review': 'request:handle',
+  'POST /api/requests/[id]/agree': 'request:agree',
+  'POST /api/requests/[id]/record-agreement': 'request:handle',
   'POST /api/requests/[id]/accept': 'request:handle',
   'POST /api/requests/[id]/decline': 'request:handle',
 
@@ -98,6 +105,7 @@ export const ROUTE_ACCESS = {
   'GET /api/certificates/[id]/pdf': 'certificate:read',
   'POST /api/certificates/[id]/amend': 'certificate:sign',
   'POST /api/certificates/[id]/withdraw': 'certificate:sign',
+  'POST /api/certificates/[id]/reopen': 'certificate:reopen',
 
   'GET /api/settings/lab': 'settings:read',
   'GET /api/settings/today': 'account:self',

@@ -62,9 +62,10 @@ export async function runRunsBench(opts: { quick?: boolean } = {}): Promise<Runs
     const actor = { id: user.id }
     const setPoints = Array.from({ length: 12 }, (_, i) => 253.15 + i * 15)
     const header = {
-      instrumentId: instrument.id, procedureVersionId: procedure.currentVersionId!, receivedDate: '2026-05-01', calibrationDate: '2026-05-04',
+      instrumentId: instrument.id, procedureVersionId: procedure.currentVersionId!, calibrationDate: '2026-05-04',
       ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, emissivitySetting: 0.95, reflectedTemperatureK: 296.15,
-      instrumentTemperatureK: 296.65, adjusted: false, notes: null,
+      instrumentTemperatureK: 296.65, ambientInstrumentId: null, adjusted: false, internalNotes: null, certificateRemarks: null,
+      methodDeviations: null, placeOfCalibration: 'laboratory' as const, siteAddress: null,
     }
     const save = () => inTransaction(async (t) => {
       const run = await createRunIn(t, actor, header)

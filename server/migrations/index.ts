@@ -10,6 +10,7 @@ import * as m0005 from './0005-mail'
 import * as m0006 from './0006-requests'
 import * as m0007 from './0007-sessions-throttles'
 import * as m0008 from './0008-lab-time-zone'
+import * as m0009 from './0009-record-truth'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -20,4 +21,5 @@ export const migrations = [
   { name: '0006-requests', ...m0006 },
   { name: '0007-sessions-throttles', ...m0007 },
   { name: '0008-lab-time-zone', ...m0008 },
+  { name: '0009-record-truth', ...m0009 },
 ]

@@ -1,33 +1,59 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { RunStatus } from '#shared/calibration/constants'
+import type { PlaceOfCalibration, RunStatus } from '#shared/calibration/constants'
 import { sequelize } from '#server/utils/db'
 
 /**
  * One calibration of a customer's instrument under one procedure version: who performed it, when,
- * in what conditions, and its review. Temperatures in K, humidity in %RH, distance in mm.
- * Status draft → submitted → approved, or → returned → submitted again; approved runs are locked.
- * Once submitted (`submittedAt` set) every change needs a reason and leaves a RunRevision.
+ * in what measured conditions (empty until entered: nothing is assumed), under which agreed terms,
+ * and its review. Temperatures in K, humidity in %RH, distance in mm.
+ * Status draft → submitted → approved, or → returned → submitted again; a draft (or returned) run
+ * can be voided. A submitted run is frozen for everyone; approved runs are locked. After the first
+ * submission every change needs a reason and leaves a RunRevision. A run that corrects an issued
+ * certificate is a new run with `revisionOf` and its reason.
  */
 export class CalibrationRun extends Model<InferAttributes<CalibrationRun>, InferCreationAttributes<CalibrationRun>> {
   declare id: CreationOptional<number>
   declare instrumentId: number
   declare procedureVersionId: number
   declare technicianId: number
-  declare receivedDate: string
+  /** From the receipt record (null until the item is received). */
+  declare receivedDate: string | null
   declare calibrationDate: string
-  declare ambientTemperatureK: number
-  declare relativeHumidityPct: number
-  declare distanceMm: number
-  declare emissivitySetting: number
-  declare reflectedTemperatureK: number
-  declare instrumentTemperatureK: number
+  declare ambientTemperatureK: number | null
+  declare relativeHumidityPct: number | null
+  declare distanceMm: number | null
+  declare emissivitySetting: number | null
+  declare reflectedTemperatureK: number | null
+  declare instrumentTemperatureK: number | null
   declare adjusted: boolean
   declare status: CreationOptional<RunStatus>
   declare submittedAt: Date | null
   declare reviewerId: number | null
   declare reviewedAt: Date | null
   declare reviewComments: string | null
-  declare notes: string | null
+  /** The laboratory's own notes: never printed, never shown to customers. */
+  declare internalNotes: string | null
+  /** Remarks printed on the certificate. */
+  declare certificateRemarks: string | null
+  /** Deviations from the method (printed). */
+  declare methodDeviations: string | null
+  declare placeOfCalibration: CreationOptional<PlaceOfCalibration>
+  /** Where, when on site. */
+  declare siteAddress: string | null
+  /** The calibration request (and its agreed terms) this run comes from. */
+  declare requestId: number | null
+  /** The reference instrument that measured the ambient conditions. */
+  declare ambientInstrumentId: number | null
+  declare voidedAt: Date | null
+  declare voidedBy: number | null
+  declare voidReason: string | null
+  /** The run whose certificate this run corrects. */
+  declare revisionOf: number | null
+  declare revisionReason: string | null
+  /** Everyone who entered or changed the run's data (none of them may approve it). */
+  declare contributorIds: CreationOptional<number[]>
+  /** The version the last review (return) saw. */
+  declare lastReviewedVersion: number | null
   declare version: CreationOptional<number>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -39,21 +65,34 @@ CalibrationRun.init(
     instrumentId: { type: DataTypes.INTEGER, allowNull: false },
     procedureVersionId: { type: DataTypes.INTEGER, allowNull: false },
     technicianId: { type: DataTypes.INTEGER, allowNull: false },
-    receivedDate: { type: DataTypes.DATEONLY, allowNull: false },
+    receivedDate: { type: DataTypes.DATEONLY, allowNull: true },
     calibrationDate: { type: DataTypes.DATEONLY, allowNull: false },
-    ambientTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
-    relativeHumidityPct: { type: DataTypes.DOUBLE, allowNull: false },
-    distanceMm: { type: DataTypes.DOUBLE, allowNull: false },
-    emissivitySetting: { type: DataTypes.DOUBLE, allowNull: false },
-    reflectedTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
-    instrumentTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
+    ambientTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
+    relativeHumidityPct: { type: DataTypes.DOUBLE, allowNull: true },
+    distanceMm: { type: DataTypes.DOUBLE, allowNull: true },
+    emissivitySetting: { type: DataTypes.DOUBLE, allowNull: true },
+    reflectedTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
+    instrumentTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
     adjusted: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'draft' },
     submittedAt: { type: DataTypes.DATE, allowNull: true },
     reviewerId: { type: DataTypes.INTEGER, allowNull: true },
     reviewedAt: { type: DataTypes.DATE, allowNull: true },
     reviewComments: { type: DataTypes.TEXT, allowNull: true },
-    notes: { type: DataTypes.TEXT, allowNull: true },
+    internalNotes: { type: DataTypes.TEXT, allowNull: true },
+    certificateRemarks: { type: DataTypes.TEXT, allowNull: true },
+    methodDeviations: { type: DataTypes.TEXT, allowNull: true },
+    placeOfCalibration: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'laboratory' },
+    siteAddress: { type: DataTypes.TEXT, allowNull: true },
+    requestId: { type: DataTypes.INTEGER, allowNull: true },
+    ambientInstrumentId: { type: DataTypes.INTEGER, allowNull: true },
+    voidedAt: { type: DataTypes.DATE, allowNull: true },
+    voidedBy: { type: DataTypes.INTEGER, allowNull: true },
+    voidReason: { type: DataTypes.TEXT, allowNull: true },
+    revisionOf: { type: DataTypes.INTEGER, allowNull: true },
+    revisionReason: { type: DataTypes.TEXT, allowNull: true },
+    contributorIds: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
+    lastReviewedVersion: { type: DataTypes.INTEGER, allowNull: true },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,

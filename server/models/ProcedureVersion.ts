@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
 import type { DecisionRuleName } from '#shared/calibration/constants'
-import type { CmcEntry, TemplateComponent } from '#shared/types/runs'
+import type { CmcEntry, ProcedureApplicability, TemplateComponent } from '#shared/types/runs'
 import { sequelize } from '#server/utils/db'
 
 /**
@@ -18,6 +18,7 @@ export class ProcedureVersion extends Model<InferAttributes<ProcedureVersion>, I
   declare guardBandFactor: number | null
   declare template: TemplateComponent[]
   declare cmc: CmcEntry[]
+  declare applicability: ProcedureApplicability | null
   declare changeNote: string | null
   declare createdBy: number | null
   declare createdAt: CreationOptional<Date>
@@ -34,6 +35,7 @@ ProcedureVersion.init(
     guardBandFactor: { type: DataTypes.DOUBLE, allowNull: true },
     template: { type: DataTypes.JSON, allowNull: false },
     cmc: { type: DataTypes.JSON, allowNull: false },
+    applicability: { type: DataTypes.JSON, allowNull: true },
     changeNote: { type: DataTypes.TEXT, allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
     createdAt: DataTypes.DATE,

@@ -28,6 +28,10 @@ export class RunPoint extends Model<InferAttributes<RunPoint>, InferCreationAttr
   declare engineVersion: string
   declare result: PointResult
   declare monteCarlo: PointMonteCarloDTO | null
+  /** A mistaken point is voided with a reason: kept and audited, never used or printed. */
+  declare voidedAt: Date | null
+  declare voidedBy: number | null
+  declare voidReason: string | null
   declare version: CreationOptional<number>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -53,6 +57,9 @@ RunPoint.init(
     engineVersion: { type: DataTypes.STRING(20), allowNull: false },
     result: { type: DataTypes.JSON, allowNull: false },
     monteCarlo: { type: DataTypes.JSON, allowNull: true },
+    voidedAt: { type: DataTypes.DATE, allowNull: true },
+    voidedBy: { type: DataTypes.INTEGER, allowNull: true },
+    voidReason: { type: DataTypes.TEXT, allowNull: true },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,

@@ -73,14 +73,37 @@ export const EMISSIVITY_INPUTS: readonly ModelInput[] = ['sourceEmissivity', 'em
 export const UNITS_FOR_TEMPERATURE: readonly ComponentUnit[] = ['K', 'mK']
 export const UNITS_FOR_EMISSIVITY: readonly ComponentUnit[] = ['emissivity', 'percent-of-emissivity']
 
-export const RUN_STATUSES = ['draft', 'submitted', 'returned', 'approved'] as const
+export const RUN_STATUSES = ['draft', 'submitted', 'returned', 'approved', 'void'] as const
 export type RunStatus = (typeof RUN_STATUSES)[number]
 export const RUN_STATUS_LABELS: Record<RunStatus, string> = {
   draft: 'Draft',
   submitted: 'Submitted for review',
   returned: 'Returned for correction',
   approved: 'Approved',
+  void: 'Void',
 }
+
+/** Where the calibration was done (ISO/IEC 17025 7.8.2.1 b). */
+export const PLACES_OF_CALIBRATION = ['laboratory', 'on-site'] as const
+export type PlaceOfCalibration = (typeof PLACES_OF_CALIBRATION)[number]
+export const PLACE_OF_CALIBRATION_LABELS: Record<PlaceOfCalibration, string> = {
+  'laboratory': "In the laboratory's premises",
+  'on-site': "At the customer's site",
+}
+
+/** The run header fields that are measured conditions: entered, never assumed. */
+export const CONDITION_FIELDS = ['ambientTemperatureK', 'relativeHumidityPct', 'distanceMm', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
+export type ConditionField = (typeof CONDITION_FIELDS)[number]
+export const CONDITION_LABELS: Record<ConditionField, string> = {
+  ambientTemperatureK: 'Ambient temperature',
+  relativeHumidityPct: 'Relative humidity',
+  distanceMm: 'Measuring distance',
+  reflectedTemperatureK: 'Reflected (surroundings) temperature',
+  instrumentTemperatureK: "Instrument's own temperature",
+  emissivitySetting: 'Emissivity setting',
+}
+/** The conditions a point cannot be computed without (the reading model's inputs). */
+export const COMPUTATION_CONDITIONS: readonly ConditionField[] = ['reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting']
 
 /** As found (before any adjustment) and as left (after it); a run without adjustment has only as-found points. */
 export const POINT_STAGES = ['as-found', 'as-left'] as const

@@ -52,8 +52,20 @@ export const certificateIssueSchema = z.object({
 export type CertificateIssueInput = z.infer<typeof certificateIssueSchema>
 
 /** POST /api/certificates/[id]/amend: a new revision of the same number, with the reason. */
-export const certificateAmendSchema = z.object({ reason, password: signingPassword, signatoryFunction })
+/**
+ * POST /api/certificates/[id]/amend: sign the amendment from the corrected, approved revision run
+ * (`runId`, or the one open for the certificate). The reason is the one given when it was reopened.
+ */
+export const certificateAmendSchema = z.object({
+  runId: z.number({ error: 'runId must be a number' }).int().positive().optional(),
+  password: signingPassword,
+  signatoryFunction,
+})
 export type CertificateAmendInput = z.infer<typeof certificateAmendSchema>
+
+/** POST /api/certificates/[id]/reopen: why the certificate must be corrected. */
+export const certificateReopenSchema = z.object({ reason })
+export type CertificateReopenInput = z.infer<typeof certificateReopenSchema>
 
 /** POST /api/certificates/[id]/withdraw. */
 export const certificateWithdrawSchema = z.object({ reason, password: signingPassword })

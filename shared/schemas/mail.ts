@@ -6,7 +6,7 @@ export const OUTBOX_STATUSES = ['queued', 'sent', 'failed'] as const
 export type OutboxStatus = (typeof OUTBOX_STATUSES)[number]
 
 /** What a message is about. `reminder` goes to customer contacts, `equipment-alert` to quality managers. */
-export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-accepted', 'certificate-issued'] as const
+export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-reviewed', 'request-accepted', 'certificate-issued', 'certificate-amended', 'certificate-withdrawn'] as const
 export type MailKind = (typeof MAIL_KINDS)[number]
 
 export const outboxQuerySchema = pageQuerySchema.extend({

@@ -13,6 +13,7 @@ import {
   UNITS_FOR_EMISSIVITY,
   UNITS_FOR_TEMPERATURE,
 } from '../calibration/constants'
+import { SOURCE_KINDS } from '../registers/constants'
 import { text, versionSchema } from './common'
 import { numberField, optionalText } from './registerQuery'
 
@@ -47,6 +48,24 @@ export const cmcEntrySchema = z
   })
   .refine(r => r.maxK > r.minK, { path: ['maxK'], message: 'maxK must be above minK' })
 
+/**
+ * What a procedure applies to: the kinds of source it uses, the spectral band an instrument must lie
+ * in (µm) and the temperature range (K). A run is refused, with the reason, when its source or
+ * instrument falls outside.
+ */
+export const applicabilitySchema = z
+  .object({
+    sourceKinds: z.array(z.enum(SOURCE_KINDS, { error: `A source kind is one of ${SOURCE_KINDS.join(', ')}` }), { error: 'Say which kinds of source the procedure uses' })
+      .min(1, 'Say which kinds of source the procedure uses').max(SOURCE_KINDS.length),
+    bandMinUm: numberField('Shortest wavelength').positive('The shortest wavelength is above 0 µm').max(100),
+    bandMaxUm: numberField('Longest wavelength').positive('The longest wavelength is above 0 µm').max(100),
+    minK: kelvin('Lowest temperature'),
+    maxK: kelvin('Highest temperature'),
+  })
+  .refine(a => a.bandMaxUm > a.bandMinUm, { path: ['bandMaxUm'], message: 'The longest wavelength must be above the shortest' })
+  .refine(a => a.maxK > a.minK, { path: ['maxK'], message: 'The highest temperature must be above the lowest' })
+export type ApplicabilityInput = z.infer<typeof applicabilitySchema>
+
 const procedureFields = z.object({
   name: text(160, 'Name'),
   documentReference: text(120, 'Document reference'),
@@ -55,6 +74,7 @@ const procedureFields = z.object({
   guardBandFactor: numberField('guardBandFactor').min(0, 'guardBandFactor cannot be negative').max(10, 'guardBandFactor is at most 10').nullable().optional().default(null),
   template: z.array(templateComponentSchema, { error: 'template is a list of components' }).max(60, 'At most 60 components'),
   cmc: z.array(cmcEntrySchema, { error: 'cmc is a list of { minK, maxK, expandedUncertaintyK }' }).max(100, 'At most 100 ranges'),
+  applicability: applicabilitySchema,
   /** What changed in this version (for the record). */
   changeNote: optionalText(2000).default(null),
 })
@@ -72,6 +92,7 @@ export const procedureUpdateSchema = z.object({
   guardBandFactor: numberField('guardBandFactor').min(0).max(10, 'guardBandFactor is at most 10').nullable().optional(),
   template: procedureFields.shape.template.optional(),
   cmc: procedureFields.shape.cmc.optional(),
+  applicability: applicabilitySchema.optional(),
   changeNote: optionalText(2000),
   version: versionSchema,
 })

@@ -3,7 +3,7 @@
  * Temperatures in kelvin, humidity in %RH, distance in mm.
  */
 import { z } from 'zod'
-import { MAX_READINGS, POINT_STAGES, RUN_SORTS, RUN_STATUSES } from '../calibration/constants'
+import { MAX_READINGS, PLACES_OF_CALIBRATION, POINT_STAGES, RUN_SORTS, RUN_STATUSES } from '../calibration/constants'
 import { pageQuerySchema, versionSchema } from './common'
 import { dateOnlySchema, numberField, optionalText } from './registerQuery'
 
@@ -15,43 +15,86 @@ const id = (label: string) => z.number({ error: `${label} must be a number` }).i
 export const reasonSchema = z.string({ error: 'reason must be text' }).trim().max(2000, 'At most 2000 characters').optional()
   .transform(v => (v ? v : undefined))
 
+/** A measured condition: a number when entered, null when not (yet); never a default. */
+const measured = <T extends z.ZodNumber>(n: T) => n.nullable()
+
 const headerFields = z.object({
-  receivedDate: dateOnlySchema,
   calibrationDate: dateOnlySchema,
-  ambientTemperatureK: kelvin('ambientTemperatureK').min(200, 'ambientTemperatureK below 200 K is not a laboratory').max(350, 'ambientTemperatureK above 350 K is not a laboratory'),
-  relativeHumidityPct: numberField('relativeHumidityPct').min(0, 'relativeHumidityPct is 0 to 100').max(100, 'relativeHumidityPct is 0 to 100'),
-  distanceMm: numberField('distanceMm').positive('distanceMm must be above 0 mm').max(100_000),
-  emissivitySetting: emissivity('emissivitySetting'),
-  reflectedTemperatureK: kelvin('reflectedTemperatureK'),
-  instrumentTemperatureK: kelvin('instrumentTemperatureK'),
+  ambientTemperatureK: measured(kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K is not a laboratory').max(350, 'An ambient temperature above 350 K is not a laboratory')),
+  relativeHumidityPct: measured(numberField('Relative humidity').min(0, 'Relative humidity is 0 to 100 %').max(100, 'Relative humidity is 0 to 100 %')),
+  distanceMm: measured(numberField('Measuring distance').positive('The measuring distance is above 0 mm').max(100_000)),
+  emissivitySetting: measured(emissivity('Emissivity setting')),
+  reflectedTemperatureK: measured(kelvin('Reflected temperature')),
+  instrumentTemperatureK: measured(kelvin("Instrument's own temperature")),
+  /** The reference instrument (thermometer, hygrometer) that measured the ambient conditions. */
+  ambientInstrumentId: id('Ambient conditions instrument').nullable(),
   adjusted: z.boolean({ error: 'adjusted must be true or false' }),
-  notes: optionalText(4000),
-  procedureVersionId: id('procedureVersionId'),
+  /** The laboratory's own notes: never printed, never shown to the customer. */
+  internalNotes: optionalText(4000),
+  /** Printed on the certificate as its remarks. */
+  certificateRemarks: optionalText(2000),
+  /** Deviations from the method (printed on the certificate). */
+  methodDeviations: optionalText(2000),
+  placeOfCalibration: z.enum(PLACES_OF_CALIBRATION, { error: 'In the laboratory or on site' }),
+  siteAddress: optionalText(600),
+  procedureVersionId: id('Procedure'),
 })
 
-function dateOrder(v: { receivedDate?: string, calibrationDate?: string }, ctx: z.RefinementCtx) {
-  if (v.receivedDate && v.calibrationDate && v.calibrationDate < v.receivedDate) {
-    ctx.addIssue({ code: 'custom', path: ['calibrationDate'], message: 'The calibration date cannot be before the date the item was received' })
-  }
-}
-
-/** POST /api/runs: the technician is the signed-in user; the emissivity setting defaults to the instrument's. */
+/** POST /api/runs: the technician is the signed-in user. Conditions are entered when measured. */
 export const runCreateSchema = headerFields
   .extend({
-    instrumentId: id('instrumentId'),
-    emissivitySetting: headerFields.shape.emissivitySetting.optional(),
+    instrumentId: id('Instrument'),
+    ambientTemperatureK: headerFields.shape.ambientTemperatureK.optional().default(null),
+    relativeHumidityPct: headerFields.shape.relativeHumidityPct.optional().default(null),
+    distanceMm: headerFields.shape.distanceMm.optional().default(null),
+    emissivitySetting: headerFields.shape.emissivitySetting.optional().default(null),
+    reflectedTemperatureK: headerFields.shape.reflectedTemperatureK.optional().default(null),
+    instrumentTemperatureK: headerFields.shape.instrumentTemperatureK.optional().default(null),
+    ambientInstrumentId: headerFields.shape.ambientInstrumentId.optional().default(null),
     adjusted: headerFields.shape.adjusted.default(false),
-    notes: optionalText(4000).default(null),
+    internalNotes: optionalText(4000).default(null),
+    certificateRemarks: optionalText(2000).default(null),
+    methodDeviations: optionalText(2000).default(null),
+    placeOfCalibration: headerFields.shape.placeOfCalibration.default('laboratory'),
+    siteAddress: optionalText(600).default(null),
   })
-  .superRefine(dateOrder)
+  .superRefine(siteRule)
 export type RunCreateInput = z.infer<typeof runCreateSchema>
+
+function siteRule(v: { placeOfCalibration?: string, siteAddress?: string | null }, ctx: z.RefinementCtx) {
+  if (v.placeOfCalibration === 'on-site' && v.siteAddress === null) ctx.addIssue({ code: 'custom', path: ['siteAddress'], message: 'Give the address of the site' })
+}
 
 /** PATCH /api/runs/[id]: any header subset, the version last seen, and a reason once the run was submitted. */
 export const runUpdateSchema = headerFields
   .partial()
   .extend({ version: versionSchema, reason: reasonSchema })
-  .superRefine(dateOrder)
+  .superRefine(siteRule)
 export type RunUpdateInput = z.infer<typeof runUpdateSchema>
+
+/** POST /api/runs/[id]/void and …/points/[pointId]/void: why the run or point is set aside. */
+export const voidSchema = z.object({
+  version: versionSchema,
+  reason: z.string({ error: 'Say why' }).trim().min(3, 'Say why it is voided').max(2000, 'At most 2000 characters'),
+})
+export type VoidInput = z.infer<typeof voidSchema>
+
+/** POST /api/runs/[id]/receipt: the receipt of the item (ISO/IEC 17025 7.4); `version` when it replaces one. */
+export const receiptSchema = z.object({
+  receivedOn: dateOnlySchema,
+  packaging: z.string({ error: 'Describe the packaging' }).trim().min(1, 'Describe the packaging (e.g. "Maker\'s case, intact")').max(1000),
+  condition: z.string({ error: 'Describe the condition' }).trim().min(1, 'Describe the physical condition as received').max(2000),
+  accessories: optionalText(1000).default(null),
+  deviations: optionalText(2000).default(null),
+  customerConsulted: z.boolean({ error: 'Was the customer consulted?' }).default(false),
+  customerDecision: optionalText(2000).default(null),
+  version: versionSchema.optional(),
+  reason: reasonSchema,
+}).superRefine((v, ctx) => {
+  if (v.customerConsulted && !v.customerDecision) ctx.addIssue({ code: 'custom', path: ['customerDecision'], message: 'Record what the customer decided' })
+  if (v.deviations && !v.customerConsulted) ctx.addIssue({ code: 'custom', path: ['customerConsulted'], message: 'A deviation found on receipt is referred to the customer (ISO/IEC 17025 7.4.3): record that they were consulted' })
+})
+export type ReceiptInput = z.infer<typeof receiptSchema>
 
 const readingsSchema = z
   .array(kelvin('reading'), { error: 'readingsK is a list of readings in K' })

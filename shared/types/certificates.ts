@@ -63,6 +63,8 @@ export interface CertificateDTO {
   /** The revision this one replaced, and why. */
   amendsId: number | null
   amendmentReason: string | null
+  /** What the amendment changed, as the certificate states it. */
+  amendmentChanges: string[]
   supersededById: number | null
   supersededAt: string | null
   withdrawnAt: string | null
@@ -85,6 +87,11 @@ export interface CertificateVerificationDTO {
   issueDate: string
   instrumentSerial: string
   status: CertificateStatus
+  /** When and why it was withdrawn (withdrawn certificates only). */
+  withdrawnOn: string | null
+  withdrawalReason: string | null
+  /** The revision that replaces it (superseded certificates only). */
+  supersededBy: string | null
 }
 
 /** GET /api/instruments/[id]/history: each certified calibration (valid certificates) with its points. */

@@ -2,12 +2,14 @@
  * DTOs of calibration procedures and runs (server/api/procedures, server/api/runs).
  * Temperatures and uncertainties in kelvin unless a field says otherwise.
  */
+import type { SourceKind } from '../registers/constants'
 import type {
   BudgetLineDistribution,
   ComponentType,
   ComponentUnit,
   DecisionRuleName,
   ModelInput,
+  PlaceOfCalibration,
   PointStage,
   RunStatus,
   TemplateDistribution,
@@ -48,10 +50,21 @@ export interface ProcedureVersionDTO {
   guardBandFactor: number | null
   template: TemplateComponent[]
   cmc: CmcEntry[]
+  /** What the procedure applies to (null: a version from before this was recorded — it cannot be used for new points). */
+  applicability: ProcedureApplicability | null
   changeNote: string | null
   createdBy: number | null
   createdByName: string | null
   createdAt: string
+}
+
+/** What a procedure applies to: source kinds, the instrument band it covers (µm) and its temperature range (K). */
+export interface ProcedureApplicability {
+  sourceKinds: SourceKind[]
+  bandMinUm: number
+  bandMaxUm: number
+  minK: number
+  maxK: number
 }
 
 export interface ProcedureDTO {
@@ -229,6 +242,10 @@ export interface RunPointDTO {
   readingsK: number[]
   result: PointResult
   monteCarlo: PointMonteCarloDTO | null
+  /** A voided point is kept (greyed, audited) and never used or printed. */
+  voidedAt: string | null
+  voidedByName: string | null
+  voidReason: string | null
   version: number
   createdAt: string
   updatedAt: string
@@ -247,14 +264,17 @@ export interface RunDTO {
   procedureVersionNumber: number | null
   technicianId: number
   technicianName: string | null
-  receivedDate: string
+  /** From the receipt record; null until the item is received. */
+  receivedDate: string | null
   calibrationDate: string
-  ambientTemperatureK: number
-  relativeHumidityPct: number
-  distanceMm: number
-  emissivitySetting: number
-  reflectedTemperatureK: number
-  instrumentTemperatureK: number
+  /** Measured conditions: null until entered. */
+  ambientTemperatureK: number | null
+  relativeHumidityPct: number | null
+  distanceMm: number | null
+  emissivitySetting: number | null
+  reflectedTemperatureK: number | null
+  instrumentTemperatureK: number | null
+  ambientInstrumentId: number | null
   adjusted: boolean
   /** True when the run has no adjustment: the as-found results are also the as-left results. */
   asLeftEqualsAsFound: boolean
@@ -264,7 +284,23 @@ export interface RunDTO {
   reviewerName: string | null
   reviewedAt: string | null
   reviewComments: string | null
-  notes: string | null
+  /** The laboratory's own notes (null for anyone outside the laboratory). */
+  internalNotes: string | null
+  certificateRemarks: string | null
+  methodDeviations: string | null
+  placeOfCalibration: PlaceOfCalibration
+  siteAddress: string | null
+  requestId: number | null
+  voidedAt: string | null
+  voidReason: string | null
+  /** The run whose certificate this run corrects, and why. */
+  revisionOf: number | null
+  revisionReason: string | null
+  /** Who entered or changed data (they may not approve it). */
+  contributorIds: number[]
+  /** The version the last review saw (changes since then are listed for the reviewer). */
+  lastReviewedVersion: number | null
+  /** Points that are not voided. */
   pointCount: number
   /** Approved runs cannot change. */
   locked: boolean
@@ -309,6 +345,50 @@ export interface RunDetailDTO extends RunDTO {
   points: RunPointDTO[]
   revisions: RunRevisionDTO[]
   audit: AuditEventDTO[]
+  receipt: ItemReceiptDTO | null
+  /** The agreed terms the run works to (from its calibration request), or null: then no statement of conformity is made. */
+  agreement: RunAgreementDTO | null
+  /** Measured conditions still to be entered, by field, with their labels. */
+  missingConditions: { field: string, label: string }[]
+  /** Revisions recorded after the last review (what the reviewer has not seen). */
+  changesSinceReview: RunRevisionDTO[]
+  /** The certificate issued from this run, if any; the certificate this run corrects, if any. */
+  certificate: { id: number, number: string, status: string } | null
+  corrects: { id: number, number: string } | null
+}
+
+/** The receipt of the item (ISO/IEC 17025 7.4). */
+export interface ItemReceiptDTO {
+  id: number
+  runId: number
+  receivedOn: string
+  receivedBy: number
+  receivedByName: string | null
+  packaging: string
+  condition: string
+  accessories: string | null
+  deviations: string | null
+  customerConsulted: boolean
+  customerDecision: string | null
+  version: number
+  updatedAt: string
+}
+
+/** The terms agreed with the customer that a run works to. */
+export interface RunAgreementDTO {
+  requestId: number
+  termsVersion: number
+  agreedAt: string
+  method: 'portal' | 'recorded'
+  note: string | null
+  agreedByName: string | null
+  decisionRule: DecisionRuleName
+  guardBandFactor: number | null
+  /** The specification agreed (null: the instrument's own accuracy specification). */
+  specification: AccuracySpec | null
+  pointsK: number[]
+  /** True when the terms still stand (not changed since they were agreed). */
+  current: boolean
 }
 
 /** POST /api/runs/[id]/points/import: preview rows (line, data, errors), or the count created. */

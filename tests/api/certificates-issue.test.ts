@@ -9,6 +9,7 @@ import os from 'node:os'
 import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { addMonths } from '../../shared/certificates/numbers'
+import { GOOD_RECEIPT } from '../support/factories'
 import { BASE_URL, Client, DEMO_PASSWORD, signedIn, unique } from '../support/http'
 
 let tech: Client
@@ -30,17 +31,21 @@ const hasPdftotext = (() => {
   }
 })()
 
-async function approvedRun(instrumentId = ownInstrument): Promise<number> {
-  const r = await tech.post('/api/runs', {
-    instrumentId, procedureVersionId: versionId, receivedDate: '2026-11-20', calibrationDate: '2026-11-25',
-    ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
-  })
+const HEADER = {
+  procedureVersionId: 0, calibrationDate: '2026-11-25',
+  ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, emissivitySetting: 0.95, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
+}
+
+/** A run with its receipt and three points, submitted by the technician and approved by the quality manager. */
+async function approvedRun(instrumentId = ownInstrument, receipt: Record<string, unknown> | false = GOOD_RECEIPT): Promise<number> {
+  const r = await tech.post('/api/runs', { ...HEADER, instrumentId, procedureVersionId: versionId })
   expect(r.status, JSON.stringify(r.body)).toBe(201)
+  if (receipt) expect((await tech.post(`/api/runs/${r.body.id}/receipt`, receipt)).status).toBe(200)
   for (const setPointK of [273.15, 323.15, 373.15]) {
     const pt = await tech.post(`/api/runs/${r.body.id}/points`, { sourceId: plate, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK - 0.2, setPointK - 0.1, setPointK - 0.3] })
     expect(pt.status, JSON.stringify(pt.body)).toBe(201)
   }
-  const s = await tech.post(`/api/runs/${r.body.id}/submit`, { version: r.body.version })
+  const s = await tech.post(`/api/runs/${r.body.id}/submit`, { version: (await tech.get(`/api/runs/${r.body.id}`)).body.version })
   expect(s.status, JSON.stringify(s.body)).toBe(200)
   const a = await quality.post(`/api/runs/${r.body.id}/approve`, { version: s.body.version })
   expect(a.status, JSON.stringify(a.body)).toBe(200)
@@ -79,6 +84,7 @@ beforeAll(async () => {
     name: unique('Certificate procedure '), documentReference: 'CP-CERT-1', decisionRule: 'simple-acceptance',
     template: [{ name: 'Reference', type: 'B', distribution: 'normal', value: 0.05, coverageFactor: 2, unit: 'K', input: 'sourceTemperature' }],
     cmc: [{ minK: 250, maxK: 450, expandedUncertaintyK: 0.4 }],
+    applicability: { sourceKinds: ['flat-plate'], bandMinUm: 7, bandMaxUm: 15, minK: 250, maxK: 450 },
   })
   expect(p.status, JSON.stringify(p.body)).toBe(201)
   versionId = p.body.currentVersion.id
@@ -123,10 +129,7 @@ describe('issuing', () => {
   })
 
   it('only approved runs, once each, as one of the laboratory’s functions; signature recorded', async () => {
-    const draft = (await tech.post('/api/runs', {
-      instrumentId: ownInstrument, procedureVersionId: versionId, receivedDate: '2026-11-20', calibrationDate: '2026-11-25',
-      ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
-    })).body
+    const draft = (await tech.post('/api/runs', { ...HEADER, instrumentId: ownInstrument, procedureVersionId: versionId })).body
     const notApproved = await issue(draft.id)
     expect(notApproved.status).toBe(400)
     expect(notApproved.body.data.fields.runId).toMatch(/approved/)
@@ -191,9 +194,13 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     const text = pdfText(file.bytes)
     for (const s of ['Calibration Certificate', cert.number, 'Harrowfield Radiometric Calibration Laboratory', 'Kestrelmoor Foundry Ltd', cert.instrumentSerial,
       'KF-IR-015', 'CP-CERT-1', 'Page 1 of', 'End of certificate', 'authorized for issue', 'Quinn Halvorsen', 'Quality manager', 'BB-FP-01', 'HTS-26-0311',
-      'coverage factor k', 'The results relate only to the items calibrated.', 'Decision rule: Simple acceptance', cert.verificationCode.slice(0, 5)]) {
+      'coverage factor k', 'The results relate only to the items calibrated.', cert.verificationCode.slice(0, 5),
+      // the receipt record, word for word, and the place (ISO/IEC 17025 7.8.2.1 and 7.4)
+      GOOD_RECEIPT.condition, GOOD_RECEIPT.packaging, 'Harrowfield Radiometric Calibration Laboratory, Unit 4']) {
       expect(text, s).toContain(s)
     }
+    // No agreement with the customer is on record for this run: no decision rule, no verdict.
+    expect(text).not.toMatch(/decision rule|conform|Pass|Fail/i)
     expect(text).toMatch(/coverage factor k (=|from) \d\.\d\d/)
     expect(text).toMatch(/coverage probability of approximately 95 %/)
     const pages = Number(/Page 1 of (\d+)/.exec(text)![1])
@@ -205,7 +212,8 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     const anon = new Client()
     const ok = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode}`)
     expect(ok.status).toBe(200)
-    expect(ok.body).toEqual({ number: cert.number, issueDate: cert.issueDate, instrumentSerial: cert.instrumentSerial, status: 'valid' })
+    const valid = { number: cert.number, issueDate: cert.issueDate, instrumentSerial: cert.instrumentSerial, status: 'valid', withdrawnOn: null, withdrawalReason: null, supersededBy: null }
+    expect(ok.body).toEqual(valid)
     const lower = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode.toLowerCase()}`)
     expect(lower.status).toBe(200)
     const wrong = await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=0000000000`)
@@ -217,9 +225,11 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     const file = await download(quality, cert.id)
     const byFile = await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Uint8Array(file.bytes) })
     expect(byFile.status).toBe(200)
-    expect(await byFile.json()).toEqual({ number: cert.number, issueDate: cert.issueDate, instrumentSerial: cert.instrumentSerial, status: 'valid' })
+    expect(await byFile.json()).toEqual(valid)
     const tampered = Buffer.concat([file.bytes, Buffer.from('\n% changed\n')])
-    expect((await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Uint8Array(tampered) })).status).toBe(404)
+    const refused = await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Uint8Array(tampered) })
+    expect(refused.status).toBe(404)
+    expect((await refused.json()).message).toMatch(/This file matches no certificate the laboratory issued/)
     const form = new FormData()
     form.append('file', new Blob([new Uint8Array(file.bytes)], { type: 'application/pdf' }), 'certificate.pdf')
     const multipart = await fetch(`${BASE_URL}/api/verify/file`, { method: 'POST', body: form })
@@ -231,7 +241,10 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     const certBefore = (await quality.get(`/api/certificates/${cert.id}`)).body
     const pt = run.points[0]
     const attempts: [string, string, unknown][] = [
-      ['PATCH', `/api/runs/${runId}`, { version: run.version, notes: 'changed', reason: 'try' }],
+      ['PATCH', `/api/runs/${runId}`, { version: run.version, internalNotes: 'changed', reason: 'try' }],
+      ['POST', `/api/runs/${runId}/receipt`, { ...GOOD_RECEIPT, condition: 'changed', version: 1, reason: 'try' }],
+      ['POST', `/api/runs/${runId}/void`, { version: run.version, reason: 'try it' }],
+      ['POST', `/api/runs/${runId}/points/${pt.id}/void`, { version: pt.version, reason: 'try it' }],
       ['POST', `/api/runs/${runId}/points`, { sourceId: plate, setPointK: 323.15, sourceIndicatedK: 323.15, readingsK: [323.1], reason: 'try' }],
       ['PATCH', `/api/runs/${runId}/points/${pt.id}`, { version: pt.version, readingsK: [300], reason: 'try' }],
       ['POST', `/api/runs/${runId}/points/import`, { csv: 'stage,sourceAssetTag,setPointK,sourceIndicatedK,reading1\nas-found,BB-FP-01,323.15,323.15,323.1\n', commit: true, reason: 'try' }],
@@ -252,15 +265,37 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     expect((await quality.get(`/api/certificates/${cert.id}`)).body).toEqual(certBefore)
   })
 
-  it('amendment issues -R1 with the reason and supersedes the original, whose PDF stays as issued', async () => {
-    const wrong = await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'x', password: 'nope', signatoryFunction: 'Quality manager' })
+  it('an amendment corrects: reopen makes a revision run that is corrected, reviewed and approved; -R1 states what changed and why and supersedes the original', async () => {
+    // Nothing to amend until the certificate is reopened and its run corrected and approved.
+    const early = await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
+    expect(early.status).toBe(409)
+    expect(early.body.message).toMatch(/reopen certificate/)
+    expect((await tech.post(`/api/certificates/${cert.id}/reopen`, { reason: 'A reading was mistyped' })).status).toBe(403)
+    expect((await quality.post(`/api/certificates/${cert.id}/reopen`, {})).body.data.fields.reason).toBeTruthy()
+    const reopened = await quality.post(`/api/certificates/${cert.id}/reopen`, { reason: 'The 50 °C readings were entered from the wrong line of the worksheet' })
+    expect(reopened.status, JSON.stringify(reopened.body)).toBe(201)
+    const rev = reopened.body
+    expect(rev).toMatchObject({ status: 'draft', revisionOf: runId, revisionReason: 'The 50 °C readings were entered from the wrong line of the worksheet' })
+    expect(rev.points.map((p: { seq: number }) => p.seq)).toEqual([1, 2, 3])
+    expect((await quality.post(`/api/certificates/${cert.id}/reopen`, { reason: 'again' })).status).toBe(409)
+    // A revision records its reasons from the start.
+    const p2 = rev.points[1]
+    expect((await tech.patch(`/api/runs/${rev.id}/points/${p2.id}`, { version: p2.version, readingsK: [323.0, 323.0, 322.9] })).body.data.fields.reason).toBeTruthy()
+    const fixed = await tech.patch(`/api/runs/${rev.id}/points/${p2.id}`, { version: p2.version, readingsK: [323.0, 323.0, 322.9], reason: 'Readings re-entered from the worksheet' })
+    expect(fixed.status, JSON.stringify(fixed.body)).toBe(200)
+    const sent = await tech.post(`/api/runs/${rev.id}/submit`, { version: (await tech.get(`/api/runs/${rev.id}`)).body.version })
+    expect(sent.status, JSON.stringify(sent.body)).toBe(200)
+    const approved = await quality.post(`/api/runs/${rev.id}/approve`, { version: sent.body.version })
+    expect(approved.status, JSON.stringify(approved.body)).toBe(200)
+
+    const wrong = await quality.post(`/api/certificates/${cert.id}/amend`, { password: 'nope', signatoryFunction: 'Quality manager' })
     expect(wrong.status).toBe(400)
     expect(wrong.body.data.fields.password).toBeTruthy()
-    expect((await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).body.data.fields.reason).toBeTruthy()
-    const amended = await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'Customer asked for the asset tag to be shown', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
+    const amended = await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
     expect(amended.status, JSON.stringify(amended.body)).toBe(201)
     expect(amended.body.number).toBe(`${cert.number}-R1`)
-    expect(amended.body).toMatchObject({ revision: 1, status: 'valid', amendsId: cert.id, amendmentReason: 'Customer asked for the asset tag to be shown' })
+    expect(amended.body).toMatchObject({ revision: 1, status: 'valid', amendsId: cert.id, runId: rev.id, amendmentReason: 'The 50 °C readings were entered from the wrong line of the worksheet' })
+    expect(amended.body.amendmentChanges.join(' ')).toMatch(/^point 2: reading 1 49\.80 °C → 49\.85 °C, reading 2 49\.90 °C → 49\.85 °C, reading 3 49\.70 °C → 49\.75 °C/)
     expect(amended.body.revisions.map((r: { number: string, status: string }) => [r.number, r.status])).toEqual([[cert.number, 'superseded'], [`${cert.number}-R1`, 'valid']])
     const old = (await quality.get(`/api/certificates/${cert.id}`)).body
     expect(old.status).toBe('superseded')
@@ -270,20 +305,36 @@ describe('the stored PDF, immutability, amendment, withdrawal, verification', ()
     expect(sha256(oldFile.bytes)).toBe(cert.pdfSha256)
     const newFile = await download(quality, amended.body.id)
     expect(sha256(newFile.bytes)).toBe(amended.body.pdfSha256)
-    if (hasPdftotext) expect(pdfText(newFile.bytes)).toContain(`replaces certificate ${cert.number}`)
+    expect(newFile.bytes.equals(oldFile.bytes)).toBe(false)
+    if (hasPdftotext) {
+      const text = pdfText(newFile.bytes)
+      expect(text).toContain(`replaces certificate ${cert.number}`)
+      expect(text).toContain('What changed: point 2:')
+    }
     const anon = new Client()
-    expect((await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode}`)).body.status).toBe('superseded')
+    const superseded = (await anon.get(`/api/verify?number=${encodeURIComponent(cert.number)}&code=${cert.verificationCode}`)).body
+    expect(superseded).toMatchObject({ status: 'superseded', supersededBy: `${cert.number}-R1`, withdrawnOn: null })
     expect((await anon.get(`/api/verify?number=${encodeURIComponent(amended.body.number)}&code=${amended.body.verificationCode}`)).body.status).toBe('valid')
-    expect((await quality.post(`/api/certificates/${cert.id}/amend`, { reason: 'again', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(409)
+    expect((await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(409)
     expect((await quality.get('/api/certificates?status=superseded&pageSize=500')).body.rows.some((r: { id: number }) => r.id === cert.id)).toBe(true)
 
     const withdrawn = await quality.post(`/api/certificates/${amended.body.id}/withdraw`, { reason: 'Issued for the wrong instrument', password: DEMO_PASSWORD })
     expect(withdrawn.status, JSON.stringify(withdrawn.body)).toBe(200)
     expect(withdrawn.body).toMatchObject({ status: 'withdrawn', withdrawalReason: 'Issued for the wrong instrument', withdrawnByName: 'Quinn Halvorsen' })
-    expect((await anon.get(`/api/verify?number=${encodeURIComponent(amended.body.number)}&code=${amended.body.verificationCode}`)).body.status).toBe('withdrawn')
+    const shown = (await anon.get(`/api/verify?number=${encodeURIComponent(amended.body.number)}&code=${amended.body.verificationCode}`)).body
+    expect(shown).toMatchObject({ status: 'withdrawn', withdrawalReason: 'Issued for the wrong instrument' })
+    expect(shown.withdrawnOn).toMatch(/^\d{4}-\d{2}-\d{2}$/)
     expect((await quality.post(`/api/certificates/${amended.body.id}/withdraw`, { reason: 'again', password: DEMO_PASSWORD })).status).toBe(409)
-    expect((await quality.post(`/api/certificates/${amended.body.id}/amend`, { reason: 'again', password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })).status).toBe(409)
+    expect((await quality.post(`/api/certificates/${amended.body.id}/reopen`, { reason: 'again' })).status).toBe(409)
     expect(sha256((await download(quality, amended.body.id)).bytes)).toBe(amended.body.pdfSha256)
+    // No valid certificate is left for the instrument: its due date no longer comes from one.
+    const inst = (await tech.get(`/api/instruments/${ownInstrument}`)).body
+    const valid = (await quality.get(`/api/certificates?pageSize=500&status=valid`)).body.rows.filter((r: { instrumentId: number }) => r.instrumentId === ownInstrument)
+    if (!valid.length) expect(inst.nextDueDate).toBeNull()
+    // The organization's contacts were told of the amendment and of the withdrawal, through the outbox.
+    const outbox = (await admin.get('/api/admin/mail/outbox?pageSize=200')).body.rows as { kind: string, subject: string }[]
+    expect(outbox.some(m => m.kind === 'certificate-amended' && m.subject.includes(`${cert.number}-R1`))).toBe(true)
+    expect(outbox.some(m => m.kind === 'certificate-withdrawn' && m.subject.includes(`${cert.number}-R1`))).toBe(true)
   })
 
   it('customers see only their organization’s certificates, every status marked; another’s is 404', async () => {

@@ -1,48 +1,97 @@
-// Calibration requests: customers ask, the laboratory accepts (draft runs) or declines.
+// Calibration requests: customers ask; the laboratory reviews (terms and capability); the customer
+// agrees (or the lab records how); the lab accepts into draft runs, or declines.
 import { describe, expect, it } from 'vitest'
 import { signedIn } from '../support/http'
 
 async function ownInstruments() {
   const customer = await signedIn('customer')
-  const list = (await customer.get('/api/instruments?pageSize=100')).body.rows as { id: number, organizationId: number }[]
+  const list = (await customer.get('/api/instruments?pageSize=100')).body.rows as { id: number, organizationId: number, bandLambda1Um: number | null, bandLambda2Um: number | null, rangeMinK: number, rangeMaxK: number }[]
   return { customer, list }
 }
 
-describe('calibration requests', () => {
-  it('a customer requests its own instruments; the lab sees it in the queue and accepts it into draft runs', async () => {
+describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', () => {
+  it('customer asks with a specification; the lab reviews with a capability check; the customer agrees in the portal; only then runs, with nothing measured pre-filled', async () => {
     const { customer, list } = await ownInstruments()
-    const created = await customer.post('/api/requests', { instrumentIds: [list[0]!.id, list[1]!.id], preferredDate: '2027-02-01', notes: 'Before the spring shutdown' })
-    expect(created.status).toBe(201)
-    expect(created.body).toMatchObject({ status: 'open', preferredDate: '2027-02-01' })
+    const wideband = list.filter(i => i.bandLambda1Um === 8 && i.bandLambda2Um === 14 && i.rangeMinK <= 273.15 && i.rangeMaxK >= 373.15)
+    expect(wideband.length).toBeGreaterThanOrEqual(2)
+    const spec = { kind: 'greaterOf', a: 1, b: 1 }
+    const created = await customer.post('/api/requests', {
+      instrumentIds: [wideband[0]!.id, wideband[1]!.id], preferredDate: '2027-02-01', notes: 'Before the spring shutdown',
+      requirements: 'At 0, 50 and 100 °C, at 300 mm, emissivity setting 0.95', specification: spec,
+    })
+    expect(created.status, JSON.stringify(created.body)).toBe(201)
+    expect(created.body).toMatchObject({ status: 'open', preferredDate: '2027-02-01', requirements: 'At 0, 50 and 100 °C, at 300 mm, emissivity setting 0.95', specification: spec, terms: null })
     expect(created.body.instruments).toHaveLength(2)
 
     const tech = await signedIn('technician')
     const queue = (await tech.get('/api/requests?status=open&pageSize=100')).body.rows as { id: number }[]
     expect(queue.map(r => r.id)).toContain(created.body.id)
+    // Nothing is accepted into work before terms are reviewed and agreed.
+    const early = await tech.post(`/api/requests/${created.body.id}/accept`, { version: created.body.version, calibrationDate: '2027-01-05' })
+    expect(early.status).toBe(409)
+    expect(early.body.message).toMatch(/Review the request/)
 
-    const procedures = (await tech.get('/api/procedures')).body
-    const proc = (Array.isArray(procedures) ? procedures : procedures.rows)[0]
-    const accepted = await tech.post(`/api/requests/${created.body.id}/accept`, { version: created.body.version, procedureVersionId: proc.currentVersion.id, receivedDate: '2026-12-01', response: 'Booked for the week of 4 January.' })
-    expect(accepted.status).toBe(200)
+    const procedures = (await tech.get('/api/procedures')).body as { name: string, currentVersion: { id: number } }[]
+    const plate = procedures.find(p => p.name === 'Wideband 8–14 µm thermometers on the flat plate')!
+    const cavity = procedures.find(p => p.name === 'Short-wave thermometers on cavity sources')!
+    const terms = { procedureVersionId: plate.currentVersion.id, pointsK: [273.15, 323.15, 373.15], distanceMm: 300, emissivitySetting: 0.95, specification: spec, decisionRule: 'guard-band', guardBandFactor: 1 }
+    // The capability check refuses, naming why: a short-wave procedure for 8–14 µm instruments; a point no CMC covers.
+    const wrongProcedure = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, procedureVersionId: cavity.currentVersion.id, pointsK: [373.15] } })
+    expect(wrongProcedure.status).toBe(400)
+    expect(JSON.stringify(wrongProcedure.body.data.fields)).toMatch(/band 8–14 µm is outside the procedure's 0\.6–5 µm/)
+    const tooHot = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, pointsK: [273.15, 473.15] } })
+    expect(tooHot.status).toBe(400)
+    expect(tooHot.body.data.fields['terms.pointsK']).toMatch(/200 °C is outside the procedure's range/)
+    const noGuard = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, guardBandFactor: null } })
+    expect(noGuard.body.data.fields['terms.guardBandFactor']).toBeTruthy()
+
+    const reviewed = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, message: 'We can do this in the week of 4 January.' } })
+    expect(reviewed.status, JSON.stringify(reviewed.body)).toBe(200)
+    expect(reviewed.body).toMatchObject({ status: 'reviewed', termsVersion: 1, reviewedByName: 'Tomas Reyne', agreedTermsVersion: null })
+    expect(reviewed.body.terms).toMatchObject({ procedureName: plate.name, decisionRule: 'guard-band', guardBandFactor: 1, pointsK: [273.15, 323.15, 373.15] })
+    expect(reviewed.body.terms.capability.every((f: { ok: boolean }) => f.ok)).toBe(true)
+    expect((await tech.post(`/api/requests/${created.body.id}/accept`, { version: reviewed.body.version, calibrationDate: '2027-01-05' })).status).toBe(409)
+    // Only the customer agrees in the portal; stale terms are refused.
+    expect((await tech.post(`/api/requests/${created.body.id}/agree`, { version: reviewed.body.version, termsVersion: 1 })).status).toBe(403)
+    expect((await customer.post(`/api/requests/${created.body.id}/agree`, { version: reviewed.body.version, termsVersion: 2 })).status).toBe(409)
+    const agreed = await customer.post(`/api/requests/${created.body.id}/agree`, { version: reviewed.body.version, termsVersion: 1 })
+    expect(agreed.status, JSON.stringify(agreed.body)).toBe(200)
+    expect(agreed.body).toMatchObject({ status: 'agreed', agreedTermsVersion: 1, agreementMethod: 'portal', agreedByName: 'Cora Lindqvist' })
+
+    const accepted = await tech.post(`/api/requests/${created.body.id}/accept`, { version: agreed.body.version, calibrationDate: '2027-01-05', response: 'Booked for the week of 4 January.' })
+    expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
     expect(accepted.body.status).toBe('accepted')
     expect(accepted.body.runIds).toHaveLength(2)
     const run = (await tech.get(`/api/runs/${accepted.body.runIds[0]}`)).body
-    expect(run).toMatchObject({ status: 'draft', instrumentId: list[0]!.id, receivedDate: '2026-12-01' })
+    expect(run).toMatchObject({ status: 'draft', instrumentId: wideband[0]!.id, requestId: created.body.id, emissivitySetting: 0.95, placeOfCalibration: 'laboratory' })
+    // A run from a request has no measured conditions until they are entered, and no receipt until it is recorded.
+    for (const f of ['ambientTemperatureK', 'relativeHumidityPct', 'distanceMm', 'reflectedTemperatureK', 'instrumentTemperatureK', 'receivedDate', 'receipt']) expect(run[f], f).toBeNull()
+    expect(run.agreement).toMatchObject({ requestId: created.body.id, termsVersion: 1, decisionRule: 'guard-band', specification: spec, current: true })
     expect(run.technicianName).toBe('Tomas Reyne')
 
     // The customer reads the lab's answer, and the request cannot be accepted twice.
     const mine = (await customer.get(`/api/requests/${created.body.id}`)).body
     expect(mine).toMatchObject({ status: 'accepted', response: 'Booked for the week of 4 January.' })
-    // The customer is told by e-mail, once each: received, then accepted (queued in the outbox).
+    // The customer is told by e-mail, once each: received, terms offered, accepted (queued in the outbox).
     const admin = await signedIn('admin')
-    for (const kind of ['request-received', 'request-accepted']) {
+    for (const kind of ['request-received', 'request-reviewed', 'request-accepted']) {
       const out = (await admin.get(`/api/admin/mail/outbox?kind=${kind}&pageSize=100`)).body.rows as { subject: string, recipients: string[] }[]
       const mine = out.filter(m => m.subject.includes(`request ${created.body.id} `))
       expect(mine, kind).toHaveLength(1)
       expect(mine[0]!.recipients).toEqual(['customer@bandlight.test'])
     }
-    const again = await tech.post(`/api/requests/${created.body.id}/accept`, { version: accepted.body.version, procedureVersionId: proc.currentVersion.id, receivedDate: '2026-12-01' })
+    const again = await tech.post(`/api/requests/${created.body.id}/accept`, { version: accepted.body.version, calibrationDate: '2027-01-05' })
     expect(again.status).toBe(409)
+
+    // New terms after acceptance are reviewed again: the runs' agreement no longer stands until the customer agrees.
+    const revised = await tech.post(`/api/requests/${created.body.id}/review`, { version: accepted.body.version, terms: { ...terms, decisionRule: 'simple-acceptance', guardBandFactor: null } })
+    expect(revised.status, JSON.stringify(revised.body)).toBe(200)
+    expect(revised.body).toMatchObject({ status: 'accepted', termsVersion: 2, agreedTermsVersion: 1 })
+    expect((await tech.get(`/api/runs/${run.id}`)).body.agreement.current).toBe(false)
+    const recorded = await tech.post(`/api/requests/${created.body.id}/record-agreement`, { version: revised.body.version, termsVersion: 2, note: 'Agreed by telephone with C. Lindqvist, 3 December' })
+    expect(recorded.status, JSON.stringify(recorded.body)).toBe(200)
+    expect(recorded.body).toMatchObject({ agreedTermsVersion: 2, agreementMethod: 'recorded', agreementNote: 'Agreed by telephone with C. Lindqvist, 3 December' })
+    expect((await tech.get(`/api/runs/${run.id}`)).body.agreement).toMatchObject({ current: true, decisionRule: 'simple-acceptance', method: 'recorded' })
   })
 
   it('refuses another organization\'s instrument, naming instrumentIds, and creates nothing', async () => {

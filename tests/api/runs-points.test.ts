@@ -19,6 +19,7 @@ async function procedure(over: Record<string, unknown> = {}) {
     decisionRule: 'simple-acceptance',
     template: [{ name: 'Ambient', type: 'B', distribution: 'standard', value: 0.05, unit: 'K', input: 'reading' }],
     cmc: [],
+    applicability: { sourceKinds: ['flat-plate', 'cavity'], bandMinUm: 0.5, bandMaxUm: 20, minK: 200, maxK: 2000 },
     ...over,
   })
   expect(r.status, JSON.stringify(r.body)).toBe(201)
@@ -29,7 +30,6 @@ async function run(procedureVersionId: number, over: Record<string, unknown> = {
   const r = await tech.post('/api/runs', {
     instrumentId: handheld.id,
     procedureVersionId,
-    receivedDate: '2026-11-20',
     calibrationDate: '2026-11-25',
     ambientTemperatureK: 296.15,
     relativeHumidityPct: 40,

@@ -1,6 +1,7 @@
 // Runs: procedures and their versions, submission and review, separation of duties, amendments
 // with reasons (ISO/IEC 17025 7.5), the lock on approved runs, customers kept out, the demo runs.
 import { beforeAll, describe, expect, it } from 'vitest'
+import { GOOD_RECEIPT } from '../support/factories'
 import { type Client, signedIn, unique } from '../support/http'
 
 let tech: Client
@@ -15,19 +16,26 @@ const point = () => ({ sourceId: plate, setPointK: 323.15, sourceIndicatedK: 323
 
 async function newRun(by: Client = tech, over: Record<string, unknown> = {}) {
   const r = await by.post('/api/runs', {
-    instrumentId, procedureVersionId: versionId, receivedDate: '2026-11-20', calibrationDate: '2026-11-25',
-    ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
+    instrumentId, procedureVersionId: versionId, calibrationDate: '2026-11-25',
+    ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, emissivitySetting: 0.95, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15,
     ...over,
   })
   expect(r.status, JSON.stringify(r.body)).toBe(201)
-  return r.body
+  const received = await by.post(`/api/runs/${r.body.id}/receipt`, GOOD_RECEIPT)
+  expect(received.status, JSON.stringify(received.body)).toBe(200)
+  return received.body
+}
+
+/** The run's version now (every change of its data moves it on). */
+async function versionOf(runId: number, by: Client = tech): Promise<number> {
+  return (await by.get(`/api/runs/${runId}`)).body.version
 }
 
 async function submitted(by: Client = tech) {
   const run = await newRun(by)
   const pt = await by.post(`/api/runs/${run.id}/points`, point())
   expect(pt.status, JSON.stringify(pt.body)).toBe(201)
-  const s = await by.post(`/api/runs/${run.id}/submit`, { version: run.version })
+  const s = await by.post(`/api/runs/${run.id}/submit`, { version: await versionOf(run.id, by) })
   expect(s.status, JSON.stringify(s.body)).toBe(200)
   return { run: s.body, point: pt.body }
 }
@@ -41,6 +49,7 @@ beforeAll(async () => {
     name: unique('Workflow procedure '), documentReference: 'WF-1', decisionRule: 'guard-band', guardBandFactor: 1,
     template: [{ name: 'Reference', type: 'B', distribution: 'normal', value: 0.05, coverageFactor: 2, unit: 'K', input: 'sourceTemperature' }],
     cmc: [{ minK: 250, maxK: 450, expandedUncertaintyK: 0.4 }],
+    applicability: { sourceKinds: ['flat-plate', 'cavity'], bandMinUm: 0.5, bandMaxUm: 20, minK: 200, maxK: 2000 },
   })
   expect(p.status, JSON.stringify(p.body)).toBe(201)
   versionId = p.body.currentVersion.id
@@ -51,6 +60,7 @@ describe('procedures are versioned', () => {
     const created = (await quality.post('/api/procedures', {
       name: unique('Versioned '), documentReference: 'V-1', decisionRule: 'simple-acceptance',
       template: [{ name: 'Ambient', type: 'B', distribution: 'standard', value: 0.1, unit: 'K', input: 'reading' }], cmc: [],
+      applicability: { sourceKinds: ['flat-plate', 'cavity'], bandMinUm: 0.5, bandMaxUm: 20, minK: 200, maxK: 2000 },
     })).body
     expect(created.currentVersion.versionNumber).toBe(1)
     const run = await newRun(tech, { procedureVersionId: created.currentVersion.id })
@@ -92,7 +102,7 @@ describe('submission and review', () => {
     const own = await submitted(quality)
     const refused = await quality.post(`/api/runs/${own.run.id}/approve`, { version: own.run.version })
     expect(refused.status).toBe(403)
-    expect(refused.body.message).toMatch(/performed a run cannot approve it/)
+    expect(refused.body.message).toMatch(/You performed this run/)
     const other = await submitted(tech)
     const ok = await quality.post(`/api/runs/${other.run.id}/approve`, { version: other.run.version })
     expect(ok.status, JSON.stringify(ok.body)).toBe(200)
@@ -114,7 +124,7 @@ describe('submission and review', () => {
     expect(back.body.reviewComments).toBe('Repeat the 50 °C point')
     const fix = await tech.patch(`/api/runs/${run.id}/points/${pt.id}`, { version: pt.version, readingsK: [323.25, 323.3, 323.2], reason: 'Point repeated after review' })
     expect(fix.status, JSON.stringify(fix.body)).toBe(200)
-    const again = await tech.post(`/api/runs/${run.id}/submit`, { version: back.body.version })
+    const again = await tech.post(`/api/runs/${run.id}/submit`, { version: await versionOf(run.id) })
     expect(again.status).toBe(200)
     expect(again.body.status).toBe('submitted')
   })
@@ -123,11 +133,11 @@ describe('submission and review', () => {
     const run = await newRun(tech, { adjusted: true })
     expect(run.asLeftEqualsAsFound).toBe(false)
     await tech.post(`/api/runs/${run.id}/points`, point())
-    const refused = await tech.post(`/api/runs/${run.id}/submit`, { version: run.version })
+    const refused = await tech.post(`/api/runs/${run.id}/submit`, { version: await versionOf(run.id) })
     expect(refused.status).toBe(400)
     expect(refused.body.data.fields.points).toMatch(/as-left/)
     expect((await tech.post(`/api/runs/${run.id}/points`, { ...point(), stage: 'as-left' })).status).toBe(201)
-    expect((await tech.post(`/api/runs/${run.id}/submit`, { version: run.version })).status).toBe(200)
+    expect((await tech.post(`/api/runs/${run.id}/submit`, { version: await versionOf(run.id) })).status).toBe(200)
     const plain = await newRun()
     expect(plain.asLeftEqualsAsFound).toBe(true)
   })
@@ -135,7 +145,10 @@ describe('submission and review', () => {
 
 describe('amendments after submission (ISO/IEC 17025 7.5.2)', () => {
   it('need a reason (400 naming reason) and keep the earlier value in a revision', async () => {
-    const { run, point: pt } = await submitted()
+    const { run: sent, point: pt } = await submitted()
+    const back = await quality.post(`/api/runs/${sent.id}/return`, { version: sent.version, comments: 'Check the reflected temperature' })
+    expect(back.status, JSON.stringify(back.body)).toBe(200)
+    const run = back.body
     const noReason = await tech.patch(`/api/runs/${run.id}`, { version: run.version, reflectedTemperatureK: 297.15 })
     expect(noReason.status).toBe(400)
     expect(noReason.body.data.fields.reason).toBeTruthy()

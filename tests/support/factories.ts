@@ -53,16 +53,23 @@ export async function makeProcedure(quality: Client, over: Record<string, unknow
     decisionRule: 'simple-acceptance',
     template: [{ name: 'Ambient', type: 'B', distribution: 'standard', value: 0.05, unit: 'K', input: 'reading' }],
     cmc: [],
+    applicability: { sourceKinds: ['flat-plate', 'cavity'], bandMinUm: 0.5, bandMaxUm: 20, minK: 200, maxK: 2000 },
     ...over,
   }), 'procedure') as Made & { currentVersion: { id: number } }
 }
 
-/** A draft run of an instrument (technician client), with measured conditions entered. */
-export async function makeRun(tech: Client, instrumentId: number, procedureVersionId: number, over: Record<string, unknown> = {}): Promise<Made> {
-  return created(await tech.post('/api/runs', {
+/** The receipt of an item in good order (the body of POST /api/runs/[id]/receipt). */
+export const GOOD_RECEIPT = { receivedOn: '2026-11-20', packaging: 'Maker’s case, intact', condition: 'No visible damage' }
+
+/**
+ * A draft run of an instrument (technician client), with measured conditions entered and the
+ * item's receipt recorded (`receipt: false` leaves it out); answers the run as it then stands.
+ */
+export async function makeRun(tech: Client, instrumentId: number, procedureVersionId: number, over: Record<string, unknown> & { receipt?: false | Record<string, unknown> } = {}): Promise<Made> {
+  const { receipt = {}, ...header } = over
+  const run = created(await tech.post('/api/runs', {
     instrumentId,
     procedureVersionId,
-    receivedDate: '2026-11-20',
     calibrationDate: '2026-11-25',
     ambientTemperatureK: 296.15,
     relativeHumidityPct: 40,
@@ -70,8 +77,12 @@ export async function makeRun(tech: Client, instrumentId: number, procedureVersi
     emissivitySetting: 0.95,
     reflectedTemperatureK: 296.15,
     instrumentTemperatureK: 296.15,
-    ...over,
+    ...header,
   }), 'run')
+  if (receipt === false) return run
+  const r = await tech.post(`/api/runs/${run.id}/receipt`, { ...GOOD_RECEIPT, ...receipt })
+  expect(r.status, `receipt: ${JSON.stringify(r.body)}`).toBe(200)
+  return r.body as Made
 }
 
 /** Asset tag → id of every source and reference instrument. */

@@ -1,5 +1,5 @@
 import { certificateIssueSchema } from '#shared/schemas/certificate'
-import { issueCertificate } from '#server/services/certificates/certificates'
+import { issueCertificate } from '#server/services/certificates/issue'
 import { requirePermission } from '#server/utils/access'
 import { parseWith } from '#server/utils/validation'
 

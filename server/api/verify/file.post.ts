@@ -1,5 +1,5 @@
 import type { CertificateVerificationDTO } from '#shared/types'
-import { notVerified, verifyCertificateFile } from '#server/services/certificates/verification'
+import { fileNotVerified, verifyCertificateFile } from '#server/services/certificates/verification'
 import { tooManyRequests, waitInWords, invalidInput } from '#server/utils/errors'
 import { clientAddress } from '#server/utils/request'
 import { verifyFailed, verifyThrottle } from '#server/utils/throttle'
@@ -36,7 +36,7 @@ export default defineEventHandler(async (event): Promise<CertificateVerification
   const found = await verifyCertificateFile(bytes)
   if (!found) {
     await verifyFailed(address)
-    notVerified()
+    fileNotVerified()
   }
   return found
 })

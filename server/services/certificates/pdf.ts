@@ -14,6 +14,7 @@ import { fileURLToPath } from 'node:url'
 import zlib from 'node:zlib'
 import PDFDocument from 'pdfkit'
 import QRCode from 'qrcode'
+import { celsiusFixed, formatFixed, typographicMinus } from '#shared/format'
 
 type Verdict = 'pass' | 'conditional-pass' | 'conditional-fail' | 'fail'
 
@@ -53,8 +54,10 @@ export interface CertificateEquipment {
 export interface CertificateData {
   number: string
   revision: number
-  /** The revision this one replaces and why; null for a first issue. */
-  amends: { number: string, issueDate: string, reason: string } | null
+  /** The revision this one replaces, why, and what changed; null for a first issue. */
+  amends: { number: string, issueDate: string, reason: string, changes: string[] } | null
+  /** A preview before signing: watermarked, not valid. */
+  draft?: boolean
   lab: {
     name: string
     addressLines: string[]
@@ -74,8 +77,23 @@ export interface CertificateData {
     rangeText: string
     resolutionText: string
     accuracyText: string
-    condition: string
   }
+  /** The receipt record of the item (ISO/IEC 17025 7.4), word for word. */
+  receipt: {
+    receivedOn: string
+    packaging: string
+    condition: string
+    accessories: string | null
+    deviations: string | null
+    customerConsulted: boolean
+    customerDecision: string | null
+  }
+  /** Where the calibration was done. */
+  place: { kind: 'laboratory' | 'on-site', addressLines: string[] }
+  /** Deviations from the method, as recorded; null when none was recorded. */
+  methodDeviations: string | null
+  /** What the "reference temperature" of the results is (its basis). */
+  referenceBasis: string
   method: { procedureName: string, documentReference: string, versionNumber: number }
   dates: { received: string, calibrated: string, issued: string }
   environment: {
@@ -85,6 +103,8 @@ export interface CertificateData {
     emissivitySetting: number
     reflectedK: number
     instrumentK: number
+    /** The reference instrument that measured the ambient conditions, when recorded. */
+    measuredWith: string | null
   }
   adjusted: boolean
   points: CertificatePoint[]
@@ -96,8 +116,20 @@ export interface CertificateData {
     items: string
     reproduction: string | null
   }
-  /** The rule's label, its guard-band factor (`r = 1`, empty for simple acceptance) and the document it follows. */
-  decisionRule: { label: string, reference: string, guardBandText: string }
+  /**
+   * The terms agreed with the customer (ISO/IEC 17025 7.1.3): the decision rule (label, guard band
+   * `r = 1` or empty, the document it follows) and the specification. Null when no agreement is on
+   * record: then no statement of conformity is made.
+   */
+  agreement: {
+    agreedOn: string
+    how: string
+    ruleLabel: string
+    guardBandText: string
+    ruleReference: string
+    specificationText: string
+  } | null
+  /** Remarks for the customer (never the laboratory's internal notes). */
   remarks: string | null
   signatory: { name: string, function: string, meaning: string, signedAt: string }
   verification: { code: string, url: string }
@@ -205,8 +237,10 @@ const CONTENT_W = PAGE.width - MARGIN.left - MARGIN.right
 const BOTTOM = PAGE.height - MARGIN.bottom
 
 const C0 = 273.15
-const celsius = (k: number, d: number) => (k - C0).toFixed(d)
+/** Kelvin → Celsius text to `d` places, computed in decimal, with a typographic minus. */
+const celsius = (k: number, d: number) => celsiusFixed(k, d)
 const signed = (s: string) => (Number(s) === 0 ? s.replace(/^-/, '') : s.startsWith('-') ? `−${s.slice(1)}` : `+${s}`)
+const tick = (v: number, d: number) => typographicMinus(formatFixed(v, d))
 const decimalsOf = (s: string) => (s.includes('.') ? s.split('.')[1]!.length : 0)
 
 function longDate(iso: string): string {
@@ -298,7 +332,8 @@ function titleBlock(w: Writer, d: CertificateData): void {
 
 function amendmentNotice(w: Writer, d: CertificateData): void {
   if (!d.amends) return
-  const s = `Revision ${d.revision}. This certificate replaces certificate ${d.amends.number} issued on ${longDate(d.amends.issueDate)}, which is superseded. Reason for the amendment: ${d.amends.reason}`
+  const changes = d.amends.changes.length ? ` What changed: ${d.amends.changes.join('; ')}.` : ''
+  const s = `Revision ${d.revision}. This certificate replaces certificate ${d.amends.number} issued on ${longDate(d.amends.issueDate)}, which is superseded and no longer valid. Reason for the amendment: ${d.amends.reason}.${changes}`
   w.font('regular', 8.6, INK)
   const h = w.doc.heightOfString(s, { width: CONTENT_W - 20 }) + 12
   w.ensure(h)
@@ -343,7 +378,6 @@ function itemBlock(w: Writer, d: CertificateData): void {
     ['Type', i.kind],
     ['Serial number', i.serial],
     ['Asset tag', i.assetTag ?? '—'],
-    ['Condition', i.condition],
   ], MARGIN.left, col, 80)
   const right = w.fields([
     ['Spectral band', i.band],
@@ -352,6 +386,23 @@ function itemBlock(w: Writer, d: CertificateData): void {
     ['Specification', i.accuracyText],
   ], MARGIN.left + col + 20, col, 86)
   w.y += Math.max(left, right) + 2
+  receiptBlock(w, d)
+}
+
+/** The condition on receipt, as the receipt record states it (ISO/IEC 17025 7.4, 7.8.2.1 e). */
+function receiptBlock(w: Writer, d: CertificateData): void {
+  const r = d.receipt
+  const rows: [string, string][] = [
+    ['Received', longDate(r.receivedOn)],
+    ['Packaging', r.packaging],
+    ['Condition on receipt', r.condition],
+  ]
+  if (r.accessories) rows.push(['Accessories', r.accessories])
+  if (r.deviations) rows.push(['Deviations found', r.deviations])
+  if (r.customerConsulted) rows.push(['Customer consulted', r.customerDecision ?? 'Yes'])
+  w.ensure(14 * rows.length + 10)
+  w.y += w.fields(rows, MARGIN.left, CONTENT_W, 110) + 2
+  if (d.adjusted) w.paragraph('The instrument was adjusted during the calibration: results are given as found and as left.', 8.2, INK, 4)
 }
 
 function methodBlock(w: Writer, d: CertificateData): void {
@@ -364,32 +415,43 @@ function methodBlock(w: Writer, d: CertificateData): void {
     ['Item received', longDate(d.dates.received)],
     ['Calibrated', longDate(d.dates.calibrated)],
     ['Issued', longDate(d.dates.issued)],
+    ['Place', d.place.kind === 'laboratory' ? `In the laboratory: ${d.place.addressLines.join(', ')}` : `At the customer’s site: ${d.place.addressLines.join(', ')}`],
   ], MARGIN.left, col, 80)
   const right = w.fields([
-    ['Ambient', `${celsius(e.ambientK, 1)} °C, ${e.relativeHumidityPct.toFixed(0)} %RH`],
-    ['Distance', `${e.distanceMm.toFixed(0)} mm from the source`],
-    ['Emissivity setting', e.emissivitySetting.toFixed(3)],
+    ['Ambient', `${celsius(e.ambientK, 1)} °C, ${formatFixed(e.relativeHumidityPct, 0)} %RH${e.measuredWith ? ` (${e.measuredWith})` : ''}`],
+    ['Distance', `${formatFixed(e.distanceMm, 0)} mm from the source`],
+    ['Emissivity setting', formatFixed(e.emissivitySetting, 3)],
     ['Reflected temperature', `${celsius(e.reflectedK, 1)} °C`],
     ['Instrument temperature', `${celsius(e.instrumentK, 1)} °C`],
   ], MARGIN.left + col + 20, col, 108)
   w.y += Math.max(left, right) + 2
-  w.paragraph('The instrument viewed the blackbody source at the distance and emissivity setting stated; the expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band.', 8, MUTED, 4)
+  w.paragraph(`Deviations from the method: ${d.methodDeviations ?? 'none recorded.'}`, 8.2, INK, 4)
+  w.paragraph(`The instrument viewed the blackbody source at the distance and emissivity setting stated. ${d.referenceBasis} The expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band.`, 8, MUTED, 4)
 }
 
-const COLS = [
-  { title: 'Reference\ntemperature °C', w: 68 },
-  { title: 'Expected\nreading °C', w: 62 },
-  { title: 'Mean\nreading °C', w: 60 },
-  { title: 'Error\n°C', w: 50 },
-  { title: 'Expanded\nuncertainty U °C', w: 72 },
-  { title: 'k', w: 32 },
-  { title: 'Tolerance\n±TL °C', w: 56 },
-  { title: 'Verdict', w: 95.28 },
-] as const
+/** The result columns; tolerance and verdict only where a statement of conformity is made. */
+function resultColumns(withConformity: boolean): { title: string, w: number }[] {
+  const cols = [
+    { title: 'Reference\ntemperature °C', w: 66 },
+    { title: 'Expected\nreading °C', w: 60 },
+    { title: 'Mean\nreading °C', w: 58 },
+    { title: 'n', w: 22 },
+    { title: 'Error\n°C', w: 50 },
+    { title: 'Expanded\nuncertainty U °C', w: 70 },
+    { title: 'k', w: 30 },
+  ]
+  if (withConformity) cols.push({ title: 'Tolerance\n±TL °C', w: 54 }, { title: 'Verdict', w: 0 })
+  const used = cols.reduce((a, c) => a + c.w, 0)
+  // The last column takes the rest of the width.
+  if (withConformity) cols[cols.length - 1]!.w = CONTENT_W - used
+  else cols[0]!.w += CONTENT_W - used
+  return cols
+}
 
-function resultsTable(w: Writer, title: string, points: CertificatePoint[]): void {
+function resultsTable(w: Writer, title: string, points: CertificatePoint[], withConformity: boolean): void {
   const { doc } = w
   const rowH = 15.5
+  const COLS = resultColumns(withConformity)
   const header = () => {
     doc.save().rect(MARGIN.left, w.y, CONTENT_W, 26).fill(INK).restore()
     let x = MARGIN.left
@@ -420,10 +482,11 @@ function resultsTable(w: Writer, title: string, points: CertificatePoint[]): voi
       celsius(p.referenceK, dec),
       celsius(p.expectedK, dec),
       celsius(p.meanK, dec),
+      String(p.n),
       signed(p.errorText),
       p.uncertaintyText,
-      p.coverageFactor.toFixed(2),
-      p.toleranceK.toFixed(dec),
+      formatFixed(p.coverageFactor, 2),
+      ...(withConformity ? [formatFixed(p.toleranceK, dec)] : []),
     ]
     let x = MARGIN.left
     w.font('regular', 8.6, INK)
@@ -431,10 +494,12 @@ function resultsTable(w: Writer, title: string, points: CertificatePoint[]): voi
       doc.text(c, x + 4, w.y + 3.6, { width: COLS[j]!.w - 8, align: 'right', lineBreak: false })
       x += COLS[j]!.w
     })
-    const vc = VERDICT_COLOUR[p.verdict]
-    doc.save().circle(x + 8, w.y + rowH / 2, 2.6).fill(vc).restore()
-    w.font('semibold', 8.2, vc)
-    doc.text(VERDICT_TEXT[p.verdict], x + 14, w.y + 3.9, { width: COLS[7].w - 16, lineBreak: false })
+    if (withConformity) {
+      const vc = VERDICT_COLOUR[p.verdict]
+      doc.save().circle(x + 8, w.y + rowH / 2, 2.6).fill(vc).restore()
+      w.font('semibold', 8.2, vc)
+      doc.text(VERDICT_TEXT[p.verdict], x + 14, w.y + 3.9, { width: COLS[COLS.length - 1]!.w - 16, lineBreak: false })
+    }
     w.y += rowH
   })
   doc.save().moveTo(MARGIN.left, w.y).lineTo(PAGE.width - MARGIN.right, w.y).lineWidth(0.6).strokeColor(RULE).stroke().restore()
@@ -445,9 +510,10 @@ function resultsBlock(w: Writer, d: CertificateData): void {
   w.heading('Results', 90)
   const found = d.points.filter(p => p.stage === 'as-found')
   const left = d.points.filter(p => p.stage === 'as-left')
-  resultsTable(w, d.adjusted ? 'As found (before adjustment)' : 'As found and as left (no adjustment made)', found)
-  if (d.adjusted && left.length) resultsTable(w, 'As left (after adjustment)', left)
-  w.paragraph('Temperatures are stated on the International Temperature Scale of 1990 in degrees Celsius; t/°C = T/K − 273.15, and a difference of 1 °C equals 1 K. Error = mean reading − expected reading; the correction is the error with its sign reversed. Each mean is of the number of readings stated in the calibration record.', 8, MUTED)
+  const withConformity = d.agreement !== null
+  resultsTable(w, d.adjusted ? 'As found (before adjustment)' : 'As found and as left (no adjustment made)', found, withConformity)
+  if (d.adjusted && left.length) resultsTable(w, 'As left (after adjustment)', left, withConformity)
+  w.paragraph('Temperatures are stated on the International Temperature Scale of 1990 in degrees Celsius; t/°C = T/K − 273.15, and a difference of 1 °C equals 1 K. Error = mean reading − expected reading; the correction is the error with its sign reversed. n is the number of readings averaged at each point. Values are rounded to the decimal place of their expanded uncertainty.', 8, MUTED)
 }
 
 function chart(w: Writer, d: CertificateData): void {
@@ -455,7 +521,7 @@ function chart(w: Writer, d: CertificateData): void {
   const height = 190
   w.ensure(height + 40)
   w.font('semibold', 9, ACCENT)
-  doc.text('Error against temperature, with ±U and the tolerance limits', MARGIN.left, w.y, { lineBreak: false })
+  doc.text(d.agreement ? 'Error against temperature, with ±U and the tolerance limits' : 'Error against temperature, with ±U', MARGIN.left, w.y, { lineBreak: false })
   w.y += 16
   const plot = { x: MARGIN.left + 44, y: w.y + 6, w: CONTENT_W - 60, h: height - 40 }
   const temps = d.points.map(p => p.referenceK - C0)
@@ -465,7 +531,8 @@ function chart(w: Writer, d: CertificateData): void {
   const padT = (tMax - tMin) * 0.08
   tMin -= padT
   tMax += padT
-  const eMax = Math.max(...d.points.map(p => Math.max(Math.abs(p.errorK) + p.uncertaintyK, p.toleranceK))) * 1.15 || 1
+  const withLimits = d.agreement !== null
+  const eMax = Math.max(...d.points.map(p => Math.max(Math.abs(p.errorK) + p.uncertaintyK, withLimits ? p.toleranceK : 0))) * 1.15 || 1
   const X = (t: number) => plot.x + ((t - tMin) / (tMax - tMin)) * plot.w
   const Y = (e: number) => plot.y + plot.h / 2 - (e / eMax) * (plot.h / 2)
 
@@ -476,13 +543,13 @@ function chart(w: Writer, d: CertificateData): void {
   for (let v = -Math.floor(eMax / step) * step; v <= eMax + 1e-9; v += step) {
     const y = Y(v)
     doc.save().moveTo(plot.x, y).lineTo(plot.x + plot.w, y).lineWidth(v === 0 ? 0.8 : 0.3).strokeColor(v === 0 ? MUTED : RULE).stroke().restore()
-    doc.text(v.toFixed(step < 0.1 ? 2 : step < 1 ? 1 : 0), plot.x - 40, y - 3.5, { width: 36, align: 'right', lineBreak: false })
+    doc.text(tick(v, step < 0.1 ? 2 : step < 1 ? 1 : 0), plot.x - 40, y - 3.5, { width: 36, align: 'right', lineBreak: false })
   }
   const tStep = niceStep((tMax - tMin) / 2)
   for (let t = Math.ceil(tMin / tStep) * tStep; t <= tMax + 1e-9; t += tStep) {
     const x = X(t)
     doc.save().moveTo(x, plot.y + plot.h).lineTo(x, plot.y + plot.h + 3).lineWidth(0.6).strokeColor(MUTED).stroke().restore()
-    doc.text(t.toFixed(tStep < 1 ? 1 : 0), x - 20, plot.y + plot.h + 5, { width: 40, align: 'center', lineBreak: false })
+    doc.text(tick(t, tStep < 1 ? 1 : 0), x - 20, plot.y + plot.h + 5, { width: 40, align: 'center', lineBreak: false })
   }
   doc.text('Reference temperature / °C', plot.x, plot.y + plot.h + 16, { width: plot.w, align: 'center', lineBreak: false })
   doc.save().rotate(-90, { origin: [MARGIN.left + 6, plot.y + plot.h / 2] })
@@ -499,8 +566,10 @@ function chart(w: Writer, d: CertificateData): void {
     pts.forEach(([t, tl], i) => (i === 0 ? doc.moveTo(X(t), Y(sign * tl)) : doc.lineTo(X(t), Y(sign * tl))))
     doc.lineWidth(1).dash(4, { space: 3 }).strokeColor(AMBER).stroke().undash().restore()
   }
-  limit(1)
-  limit(-1)
+  if (withLimits) {
+    limit(1)
+    limit(-1)
+  }
 
   // Points with ±U bars; as left drawn as hollow squares beside the as-found dots.
   const shift = d.adjusted ? plot.w * 0.008 : 0
@@ -526,8 +595,10 @@ function chart(w: Writer, d: CertificateData): void {
     doc.text('As left, error ± U', lx + 10, ly, { lineBreak: false })
     lx += 90
   }
-  doc.save().moveTo(lx, ly + 3.5).lineTo(lx + 16, ly + 3.5).lineWidth(1).dash(4, { space: 3 }).strokeColor(AMBER).stroke().undash().restore()
-  doc.text('Tolerance limits ±TL (specification)', lx + 22, ly, { lineBreak: false })
+  if (withLimits) {
+    doc.save().moveTo(lx, ly + 3.5).lineTo(lx + 16, ly + 3.5).lineWidth(1).dash(4, { space: 3 }).strokeColor(AMBER).stroke().undash().restore()
+    doc.text('Tolerance limits ±TL (agreed specification)', lx + 22, ly, { lineBreak: false })
+  }
   w.y = ly + 18
 }
 
@@ -578,8 +649,13 @@ function traceabilityBlock(w: Writer, d: CertificateData): void {
 
 function conformityBlock(w: Writer, d: CertificateData): void {
   w.heading('Statement of conformity', 70)
-  const rule = [d.decisionRule.label, d.decisionRule.guardBandText].filter(Boolean).join(', ')
-  w.paragraph(`Decision rule: ${rule}; ${d.decisionRule.reference}. ${d.statements.decisionRule}`)
+  const a = d.agreement
+  if (!a) {
+    w.paragraph('No statement of conformity is made: no specification and decision rule were agreed with the customer for this calibration (ISO/IEC 17025:2017 7.1.3, 7.8.6). The results above state the error and its uncertainty at each point.')
+    return
+  }
+  const rule = [a.ruleLabel, a.guardBandText].filter(Boolean).join(', ')
+  w.paragraph(`Specification and decision rule agreed with the customer on ${longDate(a.agreedOn)} (${a.how}): ${a.specificationText}; ${rule} (${a.ruleReference}). ${d.statements.decisionRule}`)
   const stagePoints = d.adjusted ? d.points.filter(p => p.stage === 'as-left') : d.points
   const basis = stagePoints.length ? stagePoints : d.points
   const worst: Verdict = basis.some(p => p.verdict === 'fail') ? 'fail' : basis.some(p => p.verdict === 'conditional-fail') ? 'conditional-fail' : basis.some(p => p.verdict === 'conditional-pass') ? 'conditional-pass' : 'pass'
@@ -589,8 +665,19 @@ function conformityBlock(w: Writer, d: CertificateData): void {
     'conditional-fail': 'does not meet the specification at some points: the error lies outside the acceptance limit but within the uncertainty of a limit',
     'fail': 'does not meet the specification at one or more points',
   }[worst]
-  const per = basis.map(p => `${celsius(p.referenceK, 1)} °C: ${VERDICT_TEXT[p.verdict].toLowerCase()}`).join('; ')
-  w.paragraph(`Against the manufacturer’s specification (${d.instrument.accuracyText}), the instrument ${d.adjusted ? 'as left ' : ''}${summary}. Verdict per point — ${per}.`)
+  const per = basis.map((p) => {
+    const dec = Math.max(1, decimalsOf(p.uncertaintyText))
+    return `${celsius(p.referenceK, dec)} °C: ${VERDICT_TEXT[p.verdict].toLowerCase()}`
+  }).join('; ')
+  w.paragraph(`The instrument ${d.adjusted ? 'as left ' : ''}${summary}. Verdict per point — ${per}.`)
+}
+
+/** The height the closing (remarks, statements, signature) needs, so it is never left alone on a page. */
+function closingHeight(w: Writer, d: CertificateData): number {
+  w.font('regular', 8.6, INK)
+  const remarks = d.remarks ? w.doc.heightOfString(d.remarks, { width: CONTENT_W, lineGap: 1.5 }) + 30 : 0
+  const statements = w.doc.heightOfString([d.statements.items, d.statements.reproduction].filter(Boolean).join(' '), { width: CONTENT_W, lineGap: 1.5 }) + 10
+  return remarks + statements + 112 + 40
 }
 
 function closingBlock(w: Writer, d: CertificateData): Promise<void> {
@@ -606,14 +693,16 @@ function closingBlock(w: Writer, d: CertificateData): Promise<void> {
     const top = w.y
     doc.save().roundedRect(MARGIN.left, top, CONTENT_W, blockH, 3).lineWidth(0.7).strokeColor(RULE).stroke().restore()
     w.font('semibold', 8, MUTED)
-    doc.text('AUTHORIZED FOR ISSUE', MARGIN.left + 14, top + 12, { characterSpacing: 0.6, lineBreak: false })
+    doc.text(d.draft ? 'DRAFT FOR REVIEW — NOT SIGNED' : 'AUTHORIZED FOR ISSUE', MARGIN.left + 14, top + 12, { characterSpacing: 0.6, lineBreak: false })
     w.font('semibold', 12, INK)
     doc.text(d.signatory.name, MARGIN.left + 14, top + 28, { lineBreak: false })
     w.font('regular', 9, INK)
     doc.text(d.signatory.function, MARGIN.left + 14, top + 45, { lineBreak: false })
     w.font('regular', 7.8, MUTED)
     const signed = new Date(d.signatory.signedAt)
-    doc.text(`Signed electronically on ${longDate(d.signatory.signedAt)} at ${signed.toISOString().slice(11, 16)} UTC; the signature means “${d.signatory.meaning}” and was made by the signatory re-entering their password.`, MARGIN.left + 14, top + 62, { width: 300, lineGap: 1 })
+    doc.text(d.draft
+      ? `Preview made on ${longDate(d.signatory.signedAt)} for review before signing. It is not a certificate: it has no number, no signature and no verification code.`
+      : `Signed electronically on ${longDate(d.signatory.signedAt)} at ${signed.toISOString().slice(11, 16)} UTC; the signature means “${d.signatory.meaning}” and was made by the signatory re-entering their password.`, MARGIN.left + 14, top + 62, { width: 300, lineGap: 1 })
     // QR code to the verification page.
     const qx = PAGE.width - MARGIN.right - 14 - 80
     drawQr(doc, d.verification.url, qx, top + 14, 80)
@@ -660,6 +749,13 @@ function frame(doc: Doc, d: CertificateData): void {
     doc.text(`${d.lab.name} · accredited calibration laboratory No. ${d.lab.accreditationNumber}`, MARGIN.left, fy + 6, { width: CONTENT_W - 130, lineBreak: false })
     doc.text(`Verify: ${d.verification.url.replace(/^https?:\/\//, '').replace(/\?.*$/, '')} · code ${d.verification.code}`, MARGIN.left, fy + 16, { width: CONTENT_W - 130, lineBreak: false, ellipsis: true })
     doc.text(d.number, PAGE.width - MARGIN.right - 130, fy + 6, { width: 130, align: 'right', lineBreak: false })
+    if (d.draft) {
+      // A preview is marked on every page: it is not a certificate.
+      doc.save().rotate(-35, { origin: [PAGE.width / 2, PAGE.height / 2] })
+      doc.font('PlexSemi').fontSize(54).fillColor(AMBER).fillOpacity(0.16)
+      doc.text('DRAFT — NOT VALID', 0, PAGE.height / 2 - 30, { width: PAGE.width, align: 'center', lineBreak: false })
+      doc.restore()
+    }
   }
 }
 
@@ -775,6 +871,8 @@ export async function certificatePdf(data: CertificateData, fonts?: CertificateF
   chart(w, data)
   uncertaintyBlock(w, data)
   traceabilityBlock(w, data)
+  // The statement of conformity, the remarks and the signature stay together on one page.
+  w.ensure(closingHeight(w, data) + 110)
   conformityBlock(w, data)
   await closingBlock(w, data)
   frame(doc, data)

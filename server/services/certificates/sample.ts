@@ -6,7 +6,7 @@
  */
 import type { CertificateData, CertificatePoint } from './pdf'
 
-export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, revision?: number } = {}): CertificateData {
+export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, revision?: number, agreed?: boolean, draft?: boolean } = {}): CertificateData {
   const adjusted = opts.adjusted ?? false
   const revision = opts.revision ?? 0
   const list: CertificatePoint[] = []
@@ -31,7 +31,8 @@ export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, r
   return {
     number,
     revision,
-    amends: revision ? { number: revision > 1 ? `BL-2026-00042-R${revision - 1}` : 'BL-2026-00042', issueDate: '2026-11-12', reason: 'The customer’s address was corrected.' } : null,
+    amends: revision ? { number: revision > 1 ? `BL-2026-00042-R${revision - 1}` : 'BL-2026-00042', issueDate: '2026-11-12', reason: 'A reading at 50 °C was transcribed wrongly', changes: ['Point 4, reading 2: 50.4 °C → 50.2 °C', 'Point 4, error: +0.3 °C → +0.2 °C'] } : null,
+    ...(opts.draft ? { draft: true } : {}),
     lab: {
       name: 'Harrowfield Radiometric Calibration Laboratory',
       addressLines: ['Unit 4, Tenterbrook Science Park', 'Mill Lane', 'Harrowfield HF3 7QD', 'United Kingdom'],
@@ -43,11 +44,15 @@ export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, r
     customer: { name: 'Kestrelmoor Foundry Ltd', addressLines: ['Furnace Row 12', 'Kestrelmoor KM2 4BX', 'United Kingdom'] },
     instrument: {
       maker: 'Orrin Thermal', model: 'HT-814 handheld', serial: 'OT-HT-KF01221', assetTag: 'KF-IR-015', kind: 'Handheld radiation thermometer',
-      band: '8–14 µm', rangeText: '−30 °C to 500 °C', resolutionText: '0.1 °C', accuracyText: '±1 % of reading or ±1 °C, whichever is greater', condition: 'No defect recorded on receipt.',
+      band: '8–14 µm', rangeText: '−30 °C to 500 °C', resolutionText: '0.1 °C', accuracyText: '±1 % of reading or ±1 °C, whichever is greater',
     },
+    receipt: { receivedOn: '2026-11-02', packaging: 'Maker’s carry case, intact', condition: 'Lens scratched near the rim; display and buttons work', accessories: 'Carry case, two AA cells', deviations: 'Lens scratched near the rim', customerConsulted: true, customerDecision: 'Calibrate as received (telephone, 2 November)' },
+    place: { kind: 'laboratory', addressLines: ['Unit 4, Tenterbrook Science Park', 'Mill Lane', 'Harrowfield HF3 7QD'] },
+    methodDeviations: null,
+    referenceBasis: 'The reference temperature is the radiance temperature of the flat plate in 8–14 µm (emissivity setting 1) stated by its calibration certificate, corrected as that certificate states.',
     method: { procedureName: 'Wideband 8–14 µm thermometers on the flat plate', documentReference: 'BL-CP-07 issue 3', versionNumber: 1 },
     dates: { received: '2026-11-02', calibrated: '2026-11-09', issued: '2026-11-12' },
-    environment: { ambientK: 296.15, relativeHumidityPct: 42, distanceMm: 300, emissivitySetting: 0.95, reflectedK: 296.15, instrumentK: 296.65 },
+    environment: { ambientK: 296.15, relativeHumidityPct: 42, distanceMm: 300, emissivitySetting: 0.95, reflectedK: 296.15, instrumentK: 296.65, measuredWith: 'REF-AMB-01' },
     adjusted,
     points: list,
     coverageProbability: 0.9545,
@@ -61,7 +66,7 @@ export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, r
       items: 'The results relate only to the items calibrated.',
       reproduction: 'This certificate shall not be reproduced except in full without the written approval of the laboratory.',
     },
-    decisionRule: { label: 'Simple acceptance (no guard band)', reference: 'ILAC-G8:09/2019, simple acceptance (w = 0)', guardBandText: '' },
+    agreement: opts.agreed === false ? null : { agreedOn: '2026-10-28', how: 'accepted by the customer in the portal', ruleLabel: 'Simple acceptance (no guard band)', guardBandText: '', ruleReference: 'ILAC-G8:09/2019', specificationText: 'the manufacturer’s specification, ±1 % of reading or ±1 °C, whichever is greater' },
     remarks: adjusted ? 'Found reading low; the offset was adjusted with the maker’s service software and the instrument measured again.' : null,
     signatory: { name: 'Quinn Halvorsen', function: 'Quality manager', meaning: 'authorized for issue', signedAt: '2026-11-12T10:24:00.000Z' },
     verification: { code: '7K2M9QXP4R', url: `http://localhost:3000/verify?number=${encodeURIComponent(number)}&code=7K2M9QXP4R` },

@@ -64,7 +64,7 @@ export async function queueMail(t: Transaction, input: QueueInput): Promise<Outb
 }
 
 export interface EventMailInput {
-  kind: 'request-received' | 'request-accepted' | 'certificate-issued'
+  kind: 'request-received' | 'request-reviewed' | 'request-accepted' | 'certificate-issued' | 'certificate-amended' | 'certificate-withdrawn'
   to: string[]
   subject: string
   text: string

@@ -24,6 +24,7 @@ export function procedureVersionDTO(v: ProcedureVersion, userName: string | null
     guardBandFactor: v.guardBandFactor ?? null,
     template: v.template ?? [],
     cmc: v.cmc ?? [],
+    applicability: v.applicability ?? null,
     changeNote: v.changeNote ?? null,
     createdBy: v.createdBy ?? null,
     createdByName: userName,
@@ -67,6 +68,7 @@ export async function createProcedureIn(t: Transaction, userId: number | null, i
     guardBandFactor: input.decisionRule === 'simple-acceptance' ? null : (input.guardBandFactor ?? 1),
     template: normalizeTemplate(input.template),
     cmc: input.cmc,
+    applicability: input.applicability,
     changeNote: input.changeNote ?? null,
     createdBy: userId,
   }, { transaction: t })
@@ -95,6 +97,7 @@ export async function updateProcedureIn(t: Transaction, userId: number, id: numb
     guardBandFactor: rule === 'simple-acceptance' ? null : (r ?? 1),
     template: input.template ? normalizeTemplate(input.template) : current.template,
     cmc: input.cmc ?? current.cmc,
+    applicability: input.applicability ?? current.applicability,
     changeNote: input.changeNote ?? null,
     createdBy: userId,
   }, { transaction: t })

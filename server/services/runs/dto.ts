@@ -42,6 +42,7 @@ export function runDTO(r: CalibrationRun, n: RunNames = {}): RunDTO {
     emissivitySetting: r.emissivitySetting,
     reflectedTemperatureK: r.reflectedTemperatureK,
     instrumentTemperatureK: r.instrumentTemperatureK,
+    ambientInstrumentId: r.ambientInstrumentId ?? null,
     adjusted: !!r.adjusted,
     asLeftEqualsAsFound: !r.adjusted,
     status: r.status,
@@ -50,7 +51,18 @@ export function runDTO(r: CalibrationRun, n: RunNames = {}): RunDTO {
     reviewerName: n.reviewerName ?? null,
     reviewedAt: iso(r.reviewedAt),
     reviewComments: r.reviewComments ?? null,
-    notes: r.notes ?? null,
+    internalNotes: r.internalNotes ?? null,
+    certificateRemarks: r.certificateRemarks ?? null,
+    methodDeviations: r.methodDeviations ?? null,
+    placeOfCalibration: r.placeOfCalibration,
+    siteAddress: r.siteAddress ?? null,
+    requestId: r.requestId ?? null,
+    voidedAt: iso(r.voidedAt),
+    voidReason: r.voidReason ?? null,
+    revisionOf: r.revisionOf ?? null,
+    revisionReason: r.revisionReason ?? null,
+    contributorIds: [...(r.contributorIds ?? [])],
+    lastReviewedVersion: r.lastReviewedVersion ?? null,
     pointCount: n.pointCount ?? 0,
     locked: r.status === 'approved',
     version: r.version,
@@ -85,7 +97,7 @@ export function instrumentSummary(i: Instrument, band: BandInput, table: Spectra
   }
 }
 
-export function runPointDTO(p: RunPoint, tags: { source?: string | null, reference?: string | null } = {}): RunPointDTO {
+export function runPointDTO(p: RunPoint, tags: { source?: string | null, reference?: string | null, voidedBy?: string | null } = {}): RunPointDTO {
   return {
     id: p.id,
     runId: p.runId,
@@ -101,6 +113,9 @@ export function runPointDTO(p: RunPoint, tags: { source?: string | null, referen
     readingsK: p.readingsK,
     result: p.result,
     monteCarlo: p.monteCarlo ?? null,
+    voidedAt: iso(p.voidedAt),
+    voidedByName: tags.voidedBy ?? null,
+    voidReason: p.voidReason ?? null,
     version: p.version,
     createdAt: p.createdAt.toISOString(),
     updatedAt: p.updatedAt.toISOString(),

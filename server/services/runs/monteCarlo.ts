@@ -14,14 +14,14 @@ import { notFound } from '#server/utils/errors'
 import { recordAudit } from '#server/utils/audit'
 import { startJob, type Job } from '#server/services/calculations/jobs'
 import { runReadingMonteCarloExplicit } from '#server/services/calculations/monteCarlo'
-import { assertWritable } from './runs'
+import { assertNotLocked } from './workflow'
 import { inTransaction } from '#server/utils/transaction'
 
 /** Start the job (202 by the route); 409 for an approved run, 404 for a point not in the run. */
 export async function startPointMonteCarlo(user: SessionUser, runId: number, pointId: number, input: PointMonteCarloInput): Promise<Job<PointMonteCarloDTO>> {
   const run = await CalibrationRun.findByPk(runId)
   if (!run) notFound('run')
-  assertWritable(run)
+  assertNotLocked(run)
   const point = await RunPoint.findOne({ where: { id: pointId, runId } })
   if (!point) notFound('point')
   const plan = monteCarloPlan(point.result)

@@ -1,6 +1,6 @@
 import { idParamSchema } from '#shared/schemas/common'
 import { certificateAmendSchema } from '#shared/schemas/certificate'
-import { amendCertificate } from '#server/services/certificates/certificates'
+import { amendCertificate } from '#server/services/certificates/issue'
 import { requirePermission } from '#server/utils/access'
 import { parseWith } from '#server/utils/validation'
 

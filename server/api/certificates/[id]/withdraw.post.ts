@@ -1,6 +1,6 @@
 import { idParamSchema } from '#shared/schemas/common'
 import { certificateWithdrawSchema } from '#shared/schemas/certificate'
-import { withdrawCertificate } from '#server/services/certificates/certificates'
+import { withdrawCertificate } from '#server/services/certificates/issue'
 import { requirePermission } from '#server/utils/access'
 import { parseWith } from '#server/utils/validation'
 

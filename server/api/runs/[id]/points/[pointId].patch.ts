@@ -1,5 +1,5 @@
 import { pointParamSchema, pointUpdateSchema } from '#shared/schemas/run'
-import { updatePoint } from '#server/services/runs/runs'
+import { assertRunOpen, updatePoint } from '#server/services/runs/runs'
 import { requirePermission } from '#server/utils/access'
 import { parseWith } from '#server/utils/validation'
 
@@ -7,6 +7,7 @@ import { parseWith } from '#server/utils/validation'
 export default defineEventHandler(async (event) => {
   const user = await requirePermission(event, 'run:edit')
   const { id, pointId } = await getValidatedRouterParams(event, parseWith(pointParamSchema))
+  await assertRunOpen(id)
   const input = await readValidatedBody(event, parseWith(pointUpdateSchema))
   return await updatePoint(user, id, pointId, input)
 })

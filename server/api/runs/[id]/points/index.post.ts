@@ -1,6 +1,6 @@
 import { idParamSchema } from '#shared/schemas/common'
 import { pointCreateSchema } from '#shared/schemas/run'
-import { addPoint } from '#server/services/runs/runs'
+import { assertRunOpen, addPoint } from '#server/services/runs/runs'
 import { requirePermission } from '#server/utils/access'
 import { parseWith } from '#server/utils/validation'
 
@@ -8,6 +8,7 @@ import { parseWith } from '#server/utils/validation'
 export default defineEventHandler(async (event) => {
   const user = await requirePermission(event, 'run:edit')
   const { id } = await getValidatedRouterParams(event, parseWith(idParamSchema))
+  await assertRunOpen(id)
   const input = await readValidatedBody(event, parseWith(pointCreateSchema))
   const created = await addPoint(user, id, input)
   setResponseStatus(event, 201)

@@ -1,0 +1,57 @@
+/**
+ * Helpers for the few schema changes whose SQL differs between the engines, kept side by side.
+ */
+import type { QueryInterface } from 'sequelize'
+
+/** 'sqlite' or 'postgres'. */
+export function dialectOf(qi: QueryInterface): string {
+  return qi.sequelize.getDialect()
+}
+
+/**
+ * Let columns hold NULL. PostgreSQL: `ALTER COLUMN … DROP NOT NULL`. SQLite cannot alter a
+ * column, so the table is rebuilt the way SQLite documents it (ALTER TABLE, "Making Other Kinds Of
+ * Table Schema Changes"): with foreign keys off, a copy with the new definition takes the rows,
+ * replaces the table, and gets the table's indexes and triggers back; the foreign keys are checked
+ * before the change commits.
+ */
+export async function allowNull(qi: QueryInterface, table: string, columns: readonly string[]): Promise<void> {
+  const q = (sql: string) => qi.sequelize.query(sql)
+  if (dialectOf(qi) === 'postgres') {
+    for (const c of columns) await q(`ALTER TABLE "${table}" ALTER COLUMN "${c}" DROP NOT NULL`)
+    return
+  }
+  const [rows] = await q(`SELECT type, name, sql FROM sqlite_master WHERE tbl_name = '${table}' AND sql IS NOT NULL`) as [{ type: string, name: string, sql: string }[], unknown]
+  const create = rows.find(r => r.type === 'table')
+  if (!create) throw new Error(`no table ${table}`)
+  let sql = create.sql
+  for (const c of columns) {
+    const re = new RegExp('([`"]' + c + '[`"] [^,]*?) NOT NULL')
+    if (!re.test(sql)) throw new Error(`column ${table}.${c} is not NOT NULL (or not found)`)
+    sql = sql.replace(re, '$1')
+  }
+  const temp = `${table}__rebuild`
+  sql = sql.replace(/^CREATE TABLE [`"]?[\w]+[`"]?/, `CREATE TABLE \`${temp}\``)
+  const others = rows.filter(r => r.type === 'index' || r.type === 'trigger')
+  await q('PRAGMA foreign_keys = OFF')
+  try {
+    await q('BEGIN IMMEDIATE')
+    try {
+      await q(sql)
+      await q(`INSERT INTO \`${temp}\` SELECT * FROM \`${table}\``)
+      await q(`DROP TABLE \`${table}\``)
+      await q(`ALTER TABLE \`${temp}\` RENAME TO \`${table}\``)
+      for (const o of others) await q(o.sql)
+      const [broken] = await q('PRAGMA foreign_key_check') as [unknown[], unknown]
+      if (broken.length) throw new Error(`foreign keys broken after rebuilding ${table}`)
+      await q('COMMIT')
+    }
+    catch (err) {
+      await q('ROLLBACK')
+      throw err
+    }
+  }
+  finally {
+    await q('PRAGMA foreign_keys = ON')
+  }
+}
