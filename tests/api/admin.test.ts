@@ -128,7 +128,9 @@ describe('organizations administration', () => {
 
   it('answers 409 for a duplicate name', async () => {
     const admin = await signedIn('admin')
-    const r = await admin.post('/api/admin/organizations', { name: 'Kestrelmoor Foundry Ltd' })
+    const name = `Twice Made ${unique()}`
+    expect((await admin.post('/api/admin/organizations', { name })).status).toBe(201)
+    const r = await admin.post('/api/admin/organizations', { name })
     expect(r.status).toBe(409)
     expect(r.body.data.fields).toHaveProperty('name')
   })

@@ -5,7 +5,7 @@
 import http from 'node:http'
 import { describe, expect, it } from 'vitest'
 import { BASE_URL, Client, DEMO_ACCOUNTS, signedIn, unique } from '../support/http'
-import { equipmentIds, makeCustomer, makeInstrument, makeProcedure, makeRun } from '../support/factories'
+import { makeCustomer, makeInstrument, makeProcedure, makeRun, makeSource } from '../support/factories'
 
 const url = new URL(BASE_URL)
 
@@ -118,7 +118,7 @@ describe('concurrent writes queue instead of failing', () => {
     const patched = await Promise.all(Array.from({ length: 8 }, () => makeInstrument(tech, org.id)))
     const procedure = await makeProcedure(quality)
     const runs = await Promise.all(Array.from({ length: 4 }, async () => makeRun(tech, (await makeInstrument(tech, org.id)).id, procedure.currentVersion.id)))
-    const eq = await equipmentIds(tech)
+    const plate = await makeSource(quality)
     const jobs: Promise<{ status: number, body: unknown }>[] = []
     for (let i = 0; i < 64; i++) {
       const kind = i % 3
@@ -136,7 +136,7 @@ describe('concurrent writes queue instead of failing', () => {
       }
       else {
         const run = runs[i % runs.length]!
-        jobs.push(tech.post(`/api/runs/${run.id}/points`, { stage: 'as-found', sourceId: eq['BB-FP-01'], setPointK: 373.15, sourceIndicatedK: 373.15, readingsK: [373.2, 373.3] }))
+        jobs.push(tech.post(`/api/runs/${run.id}/points`, { stage: 'as-found', sourceId: plate.id, setPointK: 373.15, sourceIndicatedK: 373.15, readingsK: [373.2, 373.3] }))
       }
     }
     const results = await Promise.all(jobs)

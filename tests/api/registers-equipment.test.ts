@@ -4,6 +4,7 @@
 import Papa from 'papaparse'
 import { describe, expect, it } from 'vitest'
 import { signedIn, unique } from '../support/http'
+import { makeReference, makeSource } from '../support/factories'
 
 function source(tag: string, extra: Record<string, unknown> = {}) {
   return {
@@ -45,7 +46,8 @@ describe('blackbody sources', () => {
     expect(r3.body.data.fields).toHaveProperty('corrections')
     const r4 = await quality.post('/api/sources', source(unique('BB-'), { emissivityBandLambda2Um: null }))
     expect(r4.body.data.fields).toHaveProperty('emissivityBandLambda2Um')
-    const dup = await quality.post('/api/sources', source('BB-FP-01'))
+    const existing = await makeSource(quality)
+    const dup = await quality.post('/api/sources', source(existing.assetTag))
     expect(dup.status).toBe(409)
     expect(dup.body.data.fields).toHaveProperty('assetTag')
   })
@@ -110,13 +112,22 @@ describe('blackbody sources', () => {
     expect((await quality.post('/api/sources/987654/calibrations', cal)).status).toBe(404)
   })
 
-  it('the demo high-temperature cavity is past due (due 2026-10-15), sortable and filterable by due date', async () => {
+  it('the demo high-temperature cavity is past due (due 2026-10-15)', async () => {
+    // a check of the demo scenario itself, which keeps its high-temperature cavity BB-CV-03 overdue
     const tech = await signedIn('technician')
     const r = await tech.get('/api/sources?q=BB-CV-03')
     expect(r.body.rows[0]).toMatchObject({ assetTag: 'BB-CV-03', dueDate: '2026-10-15', pastDue: true })
+  })
+
+  it('a source past due is flagged, sortable and filterable by due date', async () => {
+    const quality = await signedIn('quality')
+    const tech = await signedIn('technician')
+    const overdue = await makeSource(quality, { calibration: { calibrationDate: '2025-10-15', dueDate: '2026-10-15' } })
+    const current = await makeSource(quality, { calibration: { calibrationDate: '2026-03-10', dueDate: '2027-03-10' } })
+    expect((await tech.get(`/api/sources?q=${overdue.assetTag}`)).body.rows[0]).toMatchObject({ assetTag: overdue.assetTag, dueDate: '2026-10-15', pastDue: true })
     const due = await tech.get('/api/sources?dueBefore=2026-11-01&pageSize=500')
-    expect(due.body.rows.map((s: { assetTag: string }) => s.assetTag)).toContain('BB-CV-03')
-    expect(due.body.rows.map((s: { assetTag: string }) => s.assetTag)).not.toContain('BB-FP-01')
+    expect(due.body.rows.map((s: { assetTag: string }) => s.assetTag)).toContain(overdue.assetTag)
+    expect(due.body.rows.map((s: { assetTag: string }) => s.assetTag)).not.toContain(current.assetTag)
     const sorted = (await tech.get('/api/sources?sort=dueDate&pageSize=500')).body.rows.map((s: { dueDate: string | null }) => s.dueDate).filter(Boolean)
     expect(sorted).toEqual([...sorted].sort())
     expect((await tech.get('/api/sources?sort=password')).status).toBe(400)
@@ -173,6 +184,7 @@ describe('blackbody sources', () => {
   it('previews errors by line and field, and commits all rows or none', async () => {
     const quality = await signedIn('quality')
     const tag = unique('BBI')
+    const existing = await makeSource(quality)
     const header = 'assetTag,kind,maker,model,serial,apertureMm,minTemperatureK,maxTemperatureK,emissivity,emissivityU,uniformityK,stabilityK'
     const csv = [
       header,
@@ -180,7 +192,7 @@ describe('blackbody sources', () => {
       `${tag}-bad,cavity,Ormsby Radiometrics,C1,2,30,300,600,1.5,0.001,0.1,0.02`,
       '',
       `${tag}-ok,cavity,Ormsby Radiometrics,C1,3,thirty,300,600,0.99,0.001,0.1,0.02`,
-      `BB-FP-01,cavity,Ormsby Radiometrics,C1,4,30,300,600,0.99,0.001,0.1,0.02`,
+      `${existing.assetTag},cavity,Ormsby Radiometrics,C1,4,30,300,600,0.99,0.001,0.1,0.02`,
     ].join('\n')
     const p = await quality.post('/api/sources/import', { csv })
     expect(p.status).toBe(200)
@@ -229,11 +241,12 @@ describe('reference instruments', () => {
     expect(a.body.archived).toBe(true)
   })
 
-  it('lists the demo references with search and filters, and round-trips through CSV', async () => {
+  it('lists references with search and filters, and round-trips through CSV', async () => {
     const quality = await signedIn('quality')
+    const hygrometer = await makeReference(quality, { kind: 'hygrometer', rangeMin: 5, rangeMax: 95, rangeUnit: '%RH', standardUncertainty: 1.5, uncertaintyUnit: '%RH' })
     const list = await quality.get('/api/reference-instruments?kind=hygrometer&pageSize=500')
     expect(list.body.rows.every((r: { kind: string }) => r.kind === 'hygrometer')).toBe(true)
-    expect(list.body.rows.map((r: { assetTag: string }) => r.assetTag)).toContain('REF-HYG-01')
+    expect(list.body.rows.map((r: { assetTag: string }) => r.assetTag)).toContain(hygrometer.assetTag)
     const prefix = unique('RX')
     await quality.post('/api/reference-instruments', prt(`${prefix}-1`))
     const csv = String((await quality.get(`/api/reference-instruments/export?q=${prefix}`)).body).replaceAll(prefix, `${prefix}B`)

@@ -3,11 +3,12 @@
 // Instruments, makers and serials are invented.
 import { describe, expect, it } from 'vitest'
 import { signedIn, unique } from '../support/http'
+import { makeCustomer, organizationOf } from '../support/factories'
 
-async function orgIds() {
-  const admin = await signedIn('admin')
-  const rows = (await admin.get('/api/customers?pageSize=500&active=all')).body.rows as { id: number, name: string }[]
-  return { own: rows.find(r => r.name === 'Kestrelmoor Foundry Ltd')!.id, other: rows.find(r => r.name === 'Pellucid Float Glass')!.id }
+/** `own`: the demo customer account's organization; `other`: an organization made here. */
+async function orgIds(): Promise<{ own: number, other: number, otherName: string }> {
+  const other = await makeCustomer(await signedIn('admin'))
+  return { own: await organizationOf(await signedIn('customer')), other: other.id, otherName: other.name as string }
 }
 
 function instrument(organizationId: number, serial: string, extra: Record<string, unknown> = {}) {
@@ -21,7 +22,7 @@ function instrument(organizationId: number, serial: string, extra: Record<string
 
 describe('instruments', () => {
   it('a customer sees only its own organization\'s instruments, read-only, without audit rows', async () => {
-    const { own, other } = await orgIds()
+    const { own, other, otherName } = await orgIds()
     const tech = await signedIn('technician')
     const customer = await signedIn('customer')
     const mine = (await tech.post('/api/instruments', instrument(own, unique('MINE-')))).body
@@ -42,7 +43,7 @@ describe('instruments', () => {
     expect((await customer.post('/api/instruments', instrument(own, unique('C-')))).status).toBe(403)
     const lab = await tech.get(`/api/instruments/${theirs.id}`)
     expect(lab.body.audit.map((a: { action: string }) => a.action)).toEqual(['create'])
-    expect(lab.body.organizationName).toBe('Pellucid Float Glass')
+    expect(lab.body.organizationName).toBe(otherName)
   })
 
   it('needs a band or a responsivity table, not both, and a valid accuracy specification', async () => {

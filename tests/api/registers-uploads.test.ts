@@ -4,6 +4,7 @@
 import { describe, expect, it } from 'vitest'
 import type { Role } from '../../shared/roles'
 import { BASE_URL, DEMO_ACCOUNTS, DEMO_PASSWORD, signedIn, unique } from '../support/http'
+import { makeCustomer, makeSource, organizationOf } from '../support/factories'
 
 /** A session cookie for raw multipart requests (the JSON test client sends text bodies only). */
 async function cookieFor(role: Role): Promise<string> {
@@ -28,10 +29,9 @@ async function download(role: Role, id: number) {
 const pdf = (text: string) => `%PDF-1.4\n% invented certificate ${text}\n1 0 obj << >> endobj\ntrailer << >>\n%%EOF\n`
 const png = (seed: number) => new Uint8Array([0x89, 0x50, 0x4E, 0x47, 0x0D, 0x0A, 0x1A, 0x0A, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, seed & 255, (seed >> 8) & 255, 7, 9])
 
-async function orgIds() {
-  const admin = await signedIn('admin')
-  const rows = (await admin.get('/api/customers?pageSize=500&active=all')).body.rows as { id: number, name: string }[]
-  return { own: rows.find(r => r.name === 'Kestrelmoor Foundry Ltd')!.id, other: rows.find(r => r.name === 'Pellucid Float Glass')!.id }
+/** `own`: the demo customer account's organization; `other`: an organization made here. */
+async function orgIds(): Promise<{ own: number, other: number }> {
+  return { own: await organizationOf(await signedIn('customer')), other: (await makeCustomer(await signedIn('admin'))).id }
 }
 
 describe('uploads', () => {
@@ -108,7 +108,7 @@ describe('uploads', () => {
   it('attaches an equipment certificate to a calibration, and refuses other uploads there', async () => {
     const quality = await signedIn('quality')
     const { own } = await orgIds()
-    const src = (await quality.get('/api/sources?q=BB-CV-02')).body.rows[0]
+    const src = await makeSource(quality)
     const cert = (await upload('quality', pdf(unique()), 'cert.pdf', 'application/pdf', { purpose: 'equipment-certificate' })).body
     const photo = (await upload('quality', png(Date.now() + 2), 'p.png', 'image/png', { purpose: 'instrument-photo', organizationId: String(own) })).body
     const cal = { provider: 'Invented Standards Lab', calibrationDate: '2026-11-20', dueDate: '2027-11-20' }

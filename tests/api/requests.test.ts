@@ -1,19 +1,30 @@
 // Calibration requests: customers ask; the laboratory reviews (terms and capability); the customer
 // agrees (or the lab records how); the lab accepts into draft runs, or declines.
+// The demo customer account asks about instruments made here in its organization; the other
+// organization is made here too.
 import { describe, expect, it } from 'vitest'
-import { signedIn } from '../support/http'
+import { Client, DEMO_ACCOUNTS, signedIn } from '../support/http'
+import { makeCustomer, makeInstrument, makeProcedure, organizationOf } from '../support/factories'
 
-async function ownInstruments() {
+/** The demo customer account and `n` fresh instruments of its organization. */
+async function ownInstruments(n: number) {
   const customer = await signedIn('customer')
-  const list = (await customer.get('/api/instruments?pageSize=100')).body.rows as { id: number, organizationId: number, bandLambda1Um: number | null, bandLambda2Um: number | null, rangeMinK: number, rangeMaxK: number }[]
+  const tech = await signedIn('technician')
+  const organizationId = await organizationOf(customer)
+  const list: { id: number }[] = []
+  for (let i = 0; i < n; i++) list.push(await makeInstrument(tech, organizationId))
   return { customer, list }
+}
+
+/** An instrument of an organization other than the demo customer's. */
+async function foreignInstrument(tech: Client) {
+  return makeInstrument(tech, (await makeCustomer(tech)).id)
 }
 
 describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', () => {
   it('customer asks with a specification; the lab reviews with a capability check; the customer agrees in the portal; only then runs, with nothing measured pre-filled', async () => {
-    const { customer, list } = await ownInstruments()
-    const wideband = list.filter(i => i.bandLambda1Um === 8 && i.bandLambda2Um === 14 && i.rangeMinK <= 273.15 && i.rangeMaxK >= 373.15)
-    expect(wideband.length).toBeGreaterThanOrEqual(2)
+    // Two 8–14 µm instruments (factory defaults: −30 °C to 500 °C).
+    const { customer, list: wideband } = await ownInstruments(2)
     const spec = { kind: 'greaterOf', a: 1, b: 1 }
     const created = await customer.post('/api/requests', {
       instrumentIds: [wideband[0]!.id, wideband[1]!.id], preferredDate: '2027-02-01', notes: 'Before the spring shutdown',
@@ -31,9 +42,9 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
     expect(early.status).toBe(409)
     expect(early.body.message).toMatch(/Review the request/)
 
-    const procedures = (await tech.get('/api/procedures')).body as { name: string, currentVersion: { id: number } }[]
-    const plate = procedures.find(p => p.name === 'Wideband 8–14 µm thermometers on the flat plate')!
-    const cavity = procedures.find(p => p.name === 'Short-wave thermometers on cavity sources')!
+    const quality = await signedIn('quality')
+    const plate = await makeProcedure(quality, { cmc: [{ minK: 253.15, maxK: 423.15, expandedUncertaintyK: 0.6 }], applicability: { sourceKinds: ['flat-plate'], bandMinUm: 7, bandMaxUm: 15, minK: 253.15, maxK: 423.15 } })
+    const cavity = await makeProcedure(quality, { cmc: [{ minK: 323.15, maxK: 1773.15, expandedUncertaintyK: 2 }], applicability: { sourceKinds: ['cavity'], bandMinUm: 0.6, bandMaxUm: 5, minK: 323.15, maxK: 1773.15 } })
     const terms = { procedureVersionId: plate.currentVersion.id, pointsK: [273.15, 323.15, 373.15], distanceMm: 300, emissivitySetting: 0.95, specification: spec, decisionRule: 'guard-band', guardBandFactor: 1 }
     // The capability check refuses, naming why: a short-wave procedure for 8–14 µm instruments; a point no CMC covers.
     const wrongProcedure = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, procedureVersionId: cavity.currentVersion.id, pointsK: [373.15] } })
@@ -48,7 +59,7 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
     const reviewed = await tech.post(`/api/requests/${created.body.id}/review`, { version: created.body.version, terms: { ...terms, message: 'We can do this in the week of 4 January.' } })
     expect(reviewed.status, JSON.stringify(reviewed.body)).toBe(200)
     expect(reviewed.body).toMatchObject({ status: 'reviewed', termsVersion: 1, reviewedByName: 'Tomas Reyne', agreedTermsVersion: null })
-    expect(reviewed.body.terms).toMatchObject({ procedureName: plate.name, decisionRule: 'guard-band', guardBandFactor: 1, pointsK: [273.15, 323.15, 373.15] })
+    expect(reviewed.body.terms).toMatchObject({ procedureName: plate.name as string, decisionRule: 'guard-band', guardBandFactor: 1, pointsK: [273.15, 323.15, 373.15] })
     expect(reviewed.body.terms.capability.every((f: { ok: boolean }) => f.ok)).toBe(true)
     expect((await tech.post(`/api/requests/${created.body.id}/accept`, { version: reviewed.body.version, calibrationDate: '2027-01-05' })).status).toBe(409)
     // Only the customer agrees in the portal; stale terms are refused.
@@ -78,7 +89,7 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
       const out = (await admin.get(`/api/admin/mail/outbox?kind=${kind}&pageSize=100`)).body.rows as { subject: string, recipients: string[] }[]
       const mine = out.filter(m => m.subject.includes(`request ${created.body.id} `))
       expect(mine, kind).toHaveLength(1)
-      expect(mine[0]!.recipients).toEqual(['customer@bandlight.test'])
+      expect(mine[0]!.recipients).toEqual([DEMO_ACCOUNTS.customer])
     }
     const again = await tech.post(`/api/requests/${created.body.id}/accept`, { version: accepted.body.version, calibrationDate: '2027-01-05' })
     expect(again.status).toBe(409)
@@ -95,10 +106,9 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
   })
 
   it('refuses another organization\'s instrument, naming instrumentIds, and creates nothing', async () => {
-    const { customer } = await ownInstruments()
+    const { customer } = await ownInstruments(0)
     const tech = await signedIn('technician')
-    const all = (await tech.get('/api/instruments?pageSize=200')).body.rows as { id: number, organizationName: string }[]
-    const foreign = all.find(i => i.organizationName !== 'Kestrelmoor Foundry Ltd')!
+    const foreign = await foreignInstrument(tech)
     const before = (await customer.get('/api/requests?pageSize=100')).body.total
     const r = await customer.post('/api/requests', { instrumentIds: [foreign.id] })
     expect(r.status).toBe(400)
@@ -107,13 +117,13 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
   })
 
   it('validates the request and the decline', async () => {
-    const { customer, list } = await ownInstruments()
+    const { customer, list } = await ownInstruments(2)
     const bad = await customer.post('/api/requests', { instrumentIds: [], preferredDate: '2027-02-30' })
     expect(bad.status).toBe(400)
     expect(Object.keys(bad.body.data.fields).sort()).toEqual(['instrumentIds', 'preferredDate'])
     const dup = await customer.post('/api/requests', { instrumentIds: [list[0]!.id, list[0]!.id] })
     expect(dup.status).toBe(400)
-    const ok = (await customer.post('/api/requests', { instrumentIds: [list[2]!.id] })).body
+    const ok = (await customer.post('/api/requests', { instrumentIds: [list[1]!.id] })).body
     const tech = await signedIn('technician')
     const noReason = await tech.post(`/api/requests/${ok.id}/decline`, { version: ok.version, response: '' })
     expect(noReason.status).toBe(400)
@@ -125,17 +135,15 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
   it('keeps organizations apart: lab roles cannot create requests, other customers\' requests are 404', async () => {
     const tech = await signedIn('technician')
     expect((await tech.post('/api/requests', { instrumentIds: [1] })).status).toBe(403)
-    // An admin creates a second customer user in another organization; it cannot read Kestrelmoor's requests.
+    // An admin creates a customer user in another organization; it cannot read the demo customer's requests.
     const admin = await signedIn('admin')
-    const orgs = (await admin.get('/api/admin/organizations')).body as { id: number, name: string }[]
-    const other = orgs.find(o => o.name === 'Pellucid Float Glass')!
-    const email = `glass${Date.now()}@pellucid-glass.example`
+    const other = await makeCustomer(admin)
+    const email = `glass${Date.now()}@testfield-glass.example`
     expect((await admin.post('/api/admin/users', { email, name: 'Glass Buyer', role: 'customer', organizationId: other.id, password: 'a-good-long-password' })).status).toBe(201)
-    const { Client } = await import('../support/http')
     const stranger = new Client()
-    await stranger.login(email, 'a-good-long-password')
-    const { customer, list } = await ownInstruments()
-    const mine = (await customer.post('/api/requests', { instrumentIds: [list[3]!.id] })).body
+    expect((await stranger.login(email, 'a-good-long-password')).status).toBe(200)
+    const { customer, list } = await ownInstruments(1)
+    const mine = (await customer.post('/api/requests', { instrumentIds: [list[0]!.id] })).body
     expect((await stranger.get(`/api/requests/${mine.id}`)).status).toBe(404)
     expect(((await stranger.get('/api/requests')).body.rows as { id: number }[]).map(r => r.id)).not.toContain(mine.id)
   })
@@ -144,8 +152,8 @@ describe('calibration requests and their contract review (ISO/IEC 17025 7.1)', (
 describe('what customers never see', () => {
   it('the laboratory\'s notes on an instrument, and another organization\'s instrument history', async () => {
     const tech = await signedIn('technician')
-    const { customer, list } = await ownInstruments()
-    const target = (await tech.get(`/api/instruments/${list[4]!.id}`)).body
+    const { customer, list } = await ownInstruments(1)
+    const target = (await tech.get(`/api/instruments/${list[0]!.id}`)).body
     const noted = await tech.patch(`/api/instruments/${target.id}`, { notes: 'Lab only: display cracked, handle with care', version: target.version })
     expect(noted.status).toBe(200)
     expect((await customer.get(`/api/instruments/${target.id}`)).body.notes).toBeNull()
@@ -153,7 +161,7 @@ describe('what customers never see', () => {
     expect(row?.notes).toBeNull()
     expect((await tech.get(`/api/instruments/${target.id}`)).body.notes).toContain('Lab only')
     // History of an instrument of another organization: 404 for the customer, data for the lab.
-    const foreign = ((await tech.get('/api/instruments?pageSize=200')).body.rows as { id: number, organizationName: string }[]).find(i => i.organizationName !== 'Kestrelmoor Foundry Ltd')!
+    const foreign = await foreignInstrument(tech)
     expect((await customer.get(`/api/instruments/${foreign.id}/history`)).status).toBe(404)
     expect((await tech.get(`/api/instruments/${foreign.id}/history`)).status).toBe(200)
   })

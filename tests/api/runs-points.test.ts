@@ -1,14 +1,18 @@
 // Calibration points through the API: equipment checks, reference temperature, CMC floor, decision
 // rules, agreement with the calculation API, CSV entry and the Monte Carlo check.
 // Expected values are hand calculations written here or published rules, named beside each check.
+// The instrument, sources and reference thermometer are made here by the factories, with the data
+// the checks depend on stated below.
 import { beforeAll, describe, expect, it } from 'vitest'
 import { type Client, signedIn, unique } from '../support/http'
+import { makeCustomer, makeInstrument, makeReference, makeSource } from '../support/factories'
 
 let tech: Client
 let quality: Client
-let handheld: { id: number, resolutionK: number }
-let pyrometer: { id: number }
-let tags: Record<string, number>
+let handheld: { id: number }
+let plate: { id: number, assetTag: string }
+let pastDue: { id: number, assetTag: string }
+let prt: { id: number, assetTag: string }
 
 const C = (c: number) => Math.round((c + 273.15) * 100) / 100
 
@@ -46,22 +50,32 @@ async function run(procedureVersionId: number, over: Record<string, unknown> = {
 beforeAll(async () => {
   tech = await signedIn('technician')
   quality = await signedIn('quality')
-  const instruments = (await tech.get('/api/instruments?pageSize=500')).body.rows as { id: number, assetTag: string, model: string, status: string, resolutionK: number }[]
-  handheld = instruments.find(i => i.assetTag === 'KF-IR-014')!
-  pyrometer = instruments.find(i => i.assetTag === 'PG-IR-006')!
-  const sources = (await tech.get('/api/sources?pageSize=100')).body.rows as { id: number, assetTag: string }[]
-  const refs = (await tech.get('/api/reference-instruments?pageSize=100')).body.rows as { id: number, assetTag: string }[]
-  tags = Object.fromEntries([...sources, ...refs].map(s => [s.assetTag, s.id]))
-  expect(handheld && pyrometer && tags['BB-FP-01'] && tags['BB-CV-03']).toBeTruthy()
+  // An 8–14 µm handheld: ±1 % of reading (°C) or ±1 K, whichever is greater; display resolution 0.1 K.
+  handheld = await makeInstrument(tech, (await makeCustomer(tech)).id, { accuracy: { kind: 'greaterOf', a: 1, b: 1 }, resolutionK: 0.1 })
+  // A flat plate, ε = 0.95, whose certificate table runs from −20 °C to 150 °C with +0.10 K at 50 °C;
+  // calibration current on the runs' date (2026-11-25).
+  plate = await makeSource(quality, {
+    emissivity: 0.95,
+    minTemperatureK: C(-20),
+    maxTemperatureK: C(150),
+    corrections: [[C(-20), 0.35], [C(0), 0.22], [C(50), 0.1], [C(100), -0.05], [C(150), -0.18]],
+  })
+  // A cavity whose calibration fell due on 2026-10-15, before the runs' date.
+  pastDue = await makeSource(quality, {
+    kind: 'cavity', minTemperatureK: C(50), maxTemperatureK: C(500), emissivity: 0.995, emissivityU: 0.001,
+    corrections: [[C(50), 0.05], [C(500), 0.3]],
+    calibration: { calibrationDate: '2025-10-15', dueDate: '2026-10-15' },
+  })
+  prt = await makeReference(quality)
 })
 
 describe('reference equipment must be usable on the calibration date (ISO/IEC 17025 6.4)', () => {
-  it('refuses the past-due cavity BB-CV-03 (due 2026-10-15), naming sourceId with the reason', async () => {
+  it('refuses a past-due cavity (due 2026-10-15), naming sourceId with the reason', async () => {
     const p = await procedure()
-    const r = await run(p.currentVersion.id, { instrumentId: pyrometer.id, emissivitySetting: 1 })
-    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-CV-03'], setPointK: C(600), sourceIndicatedK: C(600), readingsK: [C(601)] })
+    const r = await run(p.currentVersion.id, { emissivitySetting: 1 })
+    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: pastDue.id, setPointK: C(400), sourceIndicatedK: C(400), readingsK: [C(401)] })
     expect(res.status).toBe(400)
-    expect(res.body.data.fields.sourceId).toMatch(/BB-CV-03.*2026-10-15/)
+    expect(res.body.data.fields.sourceId).toMatch(new RegExp(`${pastDue.assetTag}.*2026-10-15`))
   })
 
   it('refuses an out-of-service source even with a current calibration', async () => {
@@ -84,8 +98,8 @@ describe('reference equipment must be usable on the calibration date (ISO/IEC 17
   it('a set-point outside the certificate table is refused on sourceIndicatedK (no extrapolation)', async () => {
     const p = await procedure()
     const r = await run(p.currentVersion.id)
-    // BB-FP-01's table runs from −20 °C to 150 °C
-    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(160), sourceIndicatedK: C(160), readingsK: [C(160)] })
+    // the plate's table runs from −20 °C to 150 °C
+    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(160), sourceIndicatedK: C(160), readingsK: [C(160)] })
     expect(res.status).toBe(400)
     expect(res.body.data.fields.sourceIndicatedK).toMatch(/outside/)
   })
@@ -93,32 +107,32 @@ describe('reference equipment must be usable on the calibration date (ISO/IEC 17
   it('takes the reference temperature from the source table or from a reference thermometer', async () => {
     const p = await procedure()
     const r = await run(p.currentVersion.id)
-    // BB-FP-01 certificate: correction +0.10 K at 50 °C (demo registers) → T_s = 323.25 K
-    const a = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(50), sourceIndicatedK: C(50), readingsK: [323.3, 323.4] })
+    // the plate's certificate: correction +0.10 K at 50 °C → T_s = 323.25 K
+    const a = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(50), sourceIndicatedK: C(50), readingsK: [323.3, 323.4] })
     expect(a.status).toBe(201)
     expect(Math.abs(a.body.result.referenceTemperatureK - 323.25)).toBeLessThan(1e-9)
     expect(Math.abs(a.body.result.sourceCorrectionK - 0.1)).toBeLessThan(1e-12)
-    const b = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(50), referenceInstrumentId: tags['REF-PRT-01'], referenceReadingK: 323.2, readingsK: [323.3] })
+    const b = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(50), referenceInstrumentId: prt.id, referenceReadingK: 323.2, readingsK: [323.3] })
     expect(b.status).toBe(201)
     expect(b.body.result.referenceTemperatureK).toBe(323.2)
-    expect(b.body.referenceAssetTag).toBe('REF-PRT-01')
-    const c = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(50), referenceInstrumentId: tags['REF-PRT-01'], readingsK: [323.3] })
+    expect(b.body.referenceAssetTag).toBe(prt.assetTag)
+    const c = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(50), referenceInstrumentId: prt.id, readingsK: [323.3] })
     expect(c.status).toBe(400)
     expect(c.body.data.fields.referenceReadingK).toBeTruthy()
-    const d = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(50), readingsK: [323.3] })
+    const d = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(50), readingsK: [323.3] })
     expect(d.status).toBe(400)
     expect(d.body.data.fields.sourceIndicatedK).toBeTruthy()
-    const e = await tech.post(`/api/runs/${r.id}/points`, { stage: 'as-left', sourceId: tags['BB-FP-01'], setPointK: C(50), sourceIndicatedK: C(50), readingsK: [323.3] })
+    const e = await tech.post(`/api/runs/${r.id}/points`, { stage: 'as-left', sourceId: plate.id, setPointK: C(50), sourceIndicatedK: C(50), readingsK: [323.3] })
     expect(e.status).toBe(400)
     expect(e.body.data.fields.stage).toBeTruthy()
   })
 })
 
 describe('CMC floor and decision rules', () => {
-  // Point: BB-FP-01 at 50 °C → T_s = 323.25 K; ε_i = ε_s = 0.95 and T_d = T_w, so the expected
+  // Point: the plate at 50 °C → T_s = 323.25 K; ε_i = ε_s = 0.95 and T_d = T_w, so the expected
   // reading is T_s (reading model identity). One reading 324.10 K → E = +0.85 K.
   // Spec of the handheld: ±1 % of reading (°C) or ±1 K, whichever is greater → TL = 1 K at 50 °C.
-  const point = () => ({ sourceId: tags['BB-FP-01'], setPointK: C(50), sourceIndicatedK: C(50), readingsK: [324.1] })
+  const point = () => ({ sourceId: plate.id, setPointK: C(50), sourceIndicatedK: C(50), readingsK: [324.1] })
   const cmc = [{ minK: 300, maxK: 400, expandedUncertaintyK: 0.5 }]
 
   it('states the CMC when the computed U is below it, reports both and flags it', async () => {
@@ -175,7 +189,7 @@ describe('the stored result agrees with the calculation API for the same inputs'
       ],
     })
     const r = await run(p.currentVersion.id, { emissivitySetting: 0.97, instrumentTemperatureK: 298.15 })
-    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(100), sourceIndicatedK: C(100), readingsK: [372.6, 372.8, 372.7, 372.9] })
+    const res = await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(100), sourceIndicatedK: C(100), readingsK: [372.6, 372.8, 372.7, 372.9] })
     expect(res.status).toBe(201)
     const result = res.body.result
     const detail = (await tech.get(`/api/runs/${r.id}`)).body
@@ -214,11 +228,11 @@ describe('CSV entry: POST /api/runs/[id]/points/import', () => {
     const r = await run(p.currentVersion.id)
     const bad = [
       'stage,sourceAssetTag,setPointK,sourceIndicatedK,referenceAssetTag,referenceReadingK,reading1,reading2,reading3',
-      'as-found,BB-FP-01,323.15,323.15,,,323.3,323.2,323.4',
-      'as-found,BB-NOPE,323.15,323.15,,,323.3,,',
-      'as-found,BB-FP-01,373.15,373.15,,,abc,373.2,',
-      'as-found,BB-CV-03,873.15,873.15,,,873.2,,',
-      'as-found,BB-FP-01,323.15,,REF-PRT-01,323.2,,,',
+      `as-found,${plate.assetTag},323.15,323.15,,,323.3,323.2,323.4`,
+      `as-found,${unique('BB-NONE-')},323.15,323.15,,,323.3,,`,
+      `as-found,${plate.assetTag},373.15,373.15,,,abc,373.2,`,
+      `as-found,${pastDue.assetTag},673.15,673.15,,,673.2,,`,
+      `as-found,${plate.assetTag},323.15,,${prt.assetTag},323.2,,,`,
     ].join('\n')
     const preview = await tech.post(`/api/runs/${r.id}/points/import`, { csv: bad })
     expect(preview.status, JSON.stringify(preview.body)).toBe(200)
@@ -233,7 +247,7 @@ describe('CSV entry: POST /api/runs/[id]/points/import', () => {
     const refused = await tech.post(`/api/runs/${r.id}/points/import`, { csv: bad, commit: true })
     expect(refused.status).toBe(400)
     expect((await tech.get(`/api/runs/${r.id}`)).body.points).toHaveLength(0)
-    const good = [bad.split('\n')[0], bad.split('\n')[1], 'as-found,BB-FP-01,323.15,,REF-PRT-01,323.2,323.3,323.1,'].join('\n')
+    const good = [bad.split('\n')[0], bad.split('\n')[1], `as-found,${plate.assetTag},323.15,,${prt.assetTag},323.2,323.3,323.1,`].join('\n')
     const done = await tech.post(`/api/runs/${r.id}/points/import`, { csv: good, commit: true })
     expect(done.status, JSON.stringify(done.body)).toBe(201)
     expect(done.body.created).toBe(2)
@@ -260,7 +274,7 @@ describe('Monte Carlo check of a point (JCGM 101 §8)', () => {
       ],
     })
     const r = await run(p.currentVersion.id)
-    const pt = (await tech.post(`/api/runs/${r.id}/points`, { sourceId: tags['BB-FP-01'], setPointK: C(100), sourceIndicatedK: C(100), readingsK: [373.2, 373.1, 373.3, 373.2, 373.25, 373.15, 373.2, 373.1, 373.3, 373.2] })).body
+    const pt = (await tech.post(`/api/runs/${r.id}/points`, { sourceId: plate.id, setPointK: C(100), sourceIndicatedK: C(100), readingsK: [373.2, 373.1, 373.3, 373.2, 373.25, 373.15, 373.2, 373.1, 373.3, 373.2] })).body
     const start = await tech.post(`/api/runs/${r.id}/points/${pt.id}/monte-carlo`, { trials: 50_000, seed: 7 })
     expect(start.status).toBe(202)
     let job = start.body

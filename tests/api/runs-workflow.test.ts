@@ -1,7 +1,7 @@
 // Runs: procedures and their versions, submission and review, separation of duties, amendments
 // with reasons (ISO/IEC 17025 7.5), the lock on approved runs, customers kept out, the demo runs.
 import { beforeAll, describe, expect, it } from 'vitest'
-import { GOOD_RECEIPT } from '../support/factories'
+import { GOOD_RECEIPT, makeCustomer, makeInstrument, makeSource } from '../support/factories'
 import { type Client, signedIn, unique } from '../support/http'
 
 let tech: Client
@@ -9,10 +9,10 @@ let quality: Client
 let admin: Client
 let customer: Client
 let instrumentId: number
-let plate: number
+let plate: { id: number, assetTag: string }
 let versionId: number
 
-const point = () => ({ sourceId: plate, setPointK: 323.15, sourceIndicatedK: 323.15, readingsK: [323.3, 323.2, 323.4] })
+const point = () => ({ sourceId: plate.id, setPointK: 323.15, sourceIndicatedK: 323.15, readingsK: [323.3, 323.2, 323.4] })
 
 async function newRun(by: Client = tech, over: Record<string, unknown> = {}) {
   const r = await by.post('/api/runs', {
@@ -42,9 +42,9 @@ async function submitted(by: Client = tech) {
 
 beforeAll(async () => {
   ;[tech, quality, admin, customer] = await Promise.all([signedIn('technician'), signedIn('quality'), signedIn('admin'), signedIn('customer')])
-  const instruments = (await tech.get('/api/instruments?pageSize=500')).body.rows as { id: number, assetTag: string }[]
-  instrumentId = instruments.find(i => i.assetTag === 'KF-IR-015')!.id
-  plate = ((await tech.get('/api/sources?pageSize=100')).body.rows as { id: number, assetTag: string }[]).find(s => s.assetTag === 'BB-FP-01')!.id
+  // any instrument and any source usable on the runs' date (2026-11-25) whose table holds 323.15 K
+  instrumentId = (await makeInstrument(tech, (await makeCustomer(tech)).id)).id
+  plate = await makeSource(quality)
   const p = await quality.post('/api/procedures', {
     name: unique('Workflow procedure '), documentReference: 'WF-1', decisionRule: 'guard-band', guardBandFactor: 1,
     template: [{ name: 'Reference', type: 'B', distribution: 'normal', value: 0.05, coverageFactor: 2, unit: 'K', input: 'sourceTemperature' }],
@@ -191,7 +191,7 @@ describe('approved runs are locked', () => {
     const { run, point: pt } = await submitted()
     const approved = (await quality.post(`/api/runs/${run.id}/approve`, { version: run.version })).body
     const v = approved.version
-    const csv = 'stage,sourceAssetTag,setPointK,sourceIndicatedK,reading1\nas-found,BB-FP-01,323.15,323.15,323.2'
+    const csv = `stage,sourceAssetTag,setPointK,sourceIndicatedK,reading1\nas-found,${plate.assetTag},323.15,323.15,323.2`
     const attempts: [Client, string, string, unknown][] = [
       [tech, 'PATCH', `/api/runs/${run.id}`, { version: v, distanceMm: 100, reason: 'x' }],
       [tech, 'POST', `/api/runs/${run.id}/points`, { ...point(), reason: 'x' }],

@@ -3,7 +3,8 @@
 Straight-line fit of as-found deviations d(t) = a + b*t, t in years (365.25 days) from the last
 calibration, computed independently with
   - numpy.polyfit(t, d, 1, w=1/u, cov='unscaled')   weighted fit, covariance (X'WX)^-1
-  - numpy.polyfit(t, d, 1, cov=True)                ordinary fit, covariance scaled by RSS/(n-2)
+  - numpy.polyfit(t, d, 1, cov=True)                ordinary fit, covariance scaled by RSS/(n-2);
+                                                    its residual standard deviation sqrt(RSS/(n-2))
   - scipy.optimize.curve_fit(..., sigma=u, absolute_sigma=True)   cross-check of the weighted fit
 and the interval limit D* where |a + b*D| + k*sqrt(Var a + 2D Cov + D^2 Var b + u_m^2) = TL with
   - scipy.optimize.brentq(xtol=1e-14)
@@ -51,6 +52,8 @@ def analyse(name, hist, TL, k, max_months, weighting="weighted", um=None):
         p, cov = np.polyfit(t, y, 1, cov=True)
     b, a = p
     vb, cab, va = cov[0, 0], cov[0, 1], cov[1, 1]
+    # ordinary fit: residual standard deviation s = sqrt(RSS/(n - 2)), the scale numpy applies to its covariance
+    rsd = float(np.sqrt(np.sum((y - np.polyval(p, t)) ** 2) / (len(t) - 2))) if weighting == "ordinary" else None
     um = u[-1] if um is None else um
 
     def f(D):
@@ -64,6 +67,7 @@ def analyse(name, hist, TL, k, max_months, weighting="weighted", um=None):
         months = max(m for m in range(0, max_months + 1) if f(years(origin, add_months(origin, m))) <= TL)
     print(name, dict(weighting=weighting, intercept=float(f"{a:.15g}"), slopePerYear=float(f"{b:.15g}"),
                      varA=float(f"{va:.15g}"), covAB=float(f"{cab:.15g}"), varB=float(f"{vb:.15g}"),
+                     residualSD=None if rsd is None else float(f"{rsd:.15g}"),
                      limitYears=None if Dstar is None else float(f"{Dstar:.15g}"), months=months,
                      dueDate=add_months(origin, months)))
 

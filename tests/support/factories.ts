@@ -85,9 +85,83 @@ export async function makeRun(tech: Client, instrumentId: number, procedureVersi
   return r.body as Made
 }
 
-/** Asset tag → id of every source and reference instrument. */
-export async function equipmentIds(c: Client): Promise<Record<string, number>> {
-  const sources = (await c.get('/api/sources?pageSize=100')).body.rows as { id: number, assetTag: string }[]
-  const refs = (await c.get('/api/reference-instruments?pageSize=100')).body.rows as { id: number, assetTag: string }[]
-  return Object.fromEntries([...sources, ...refs].map(s => [s.assetTag, s.id]))
+/** The calibration certificate recorded for a factory-made source or reference instrument. */
+export interface MadeCalibration { calibrationDate: string, dueDate: string, certificateNumber: string, provider: string }
+
+/**
+ * Default calibration of factory equipment: current on the factories' run date (2026-11-25) and on
+ * every date the API tests use. Pass `calibration: null` for equipment with no calibration at all.
+ */
+const CURRENT_CALIBRATION = { calibrationDate: '2026-01-15', dueDate: '2028-01-15' }
+
+async function addCalibration(quality: Client, path: string, cal: Partial<MadeCalibration>): Promise<MadeCalibration> {
+  const body = { provider: 'Testwick Thermal Standards', certificateNumber: unique('TC-'), ...CURRENT_CALIBRATION, ...cal }
+  const r = await quality.post(path, body)
+  expect(r.status, `calibration: ${JSON.stringify(r.body)}`).toBe(201)
+  return body
+}
+
+/**
+ * An 8–14 µm flat-plate blackbody source, −20 °C to 150 °C, ε = 0.95, with a certificate correction table
+ * and one calibration current on 2026-11-25 (quality or admin client). `calibration` overrides the
+ * calibration's dates or number, or is `null` for none.
+ */
+export async function makeSource(
+  quality: Client,
+  over: Record<string, unknown> & { calibration?: Partial<MadeCalibration> | null } = {},
+): Promise<Made & { assetTag: string, calibration: MadeCalibration | null }> {
+  const { calibration, ...fields } = over
+  const assetTag = unique('BB-T-')
+  const source = created(await quality.post('/api/sources', {
+    assetTag,
+    kind: 'flat-plate',
+    maker: 'Ormsby Radiometrics',
+    model: 'Plate 150',
+    serial: `S-${assetTag}`,
+    apertureMm: 150,
+    minTemperatureK: 253.15,
+    maxTemperatureK: 423.15,
+    emissivity: 0.95,
+    emissivityU: 0.005,
+    emissivityBandLambda1Um: 8,
+    emissivityBandLambda2Um: 14,
+    uniformityK: 0.2,
+    stabilityK: 0.05,
+    corrections: [[253.15, 0.3], [323.15, 0.1], [423.15, -0.2]],
+    ...fields,
+  }), 'source') as Made & { assetTag: string }
+  const cal = calibration === null ? null : await addCalibration(quality, `/api/sources/${source.id}/calibrations`, calibration ?? {})
+  return { ...source, calibration: cal }
+}
+
+/** A contact thermometer (−40 °C to 420 °C, u = 0.02 K) with one current calibration (quality or admin client). */
+export async function makeReference(
+  quality: Client,
+  over: Record<string, unknown> & { calibration?: Partial<MadeCalibration> | null } = {},
+): Promise<Made & { assetTag: string, calibration: MadeCalibration | null }> {
+  const { calibration, ...fields } = over
+  const assetTag = unique('REF-T-')
+  const ref = created(await quality.post('/api/reference-instruments', {
+    assetTag,
+    kind: 'contact-thermometer',
+    maker: 'Vellmar Sensorik',
+    model: 'Probe 7',
+    serial: `P-${assetTag}`,
+    rangeMin: 233.15,
+    rangeMax: 693.15,
+    rangeUnit: 'K',
+    standardUncertainty: 0.02,
+    uncertaintyUnit: 'K',
+    ...fields,
+  }), 'reference instrument') as Made & { assetTag: string }
+  const cal = calibration === null ? null : await addCalibration(quality, `/api/reference-instruments/${ref.id}/calibrations`, calibration ?? {})
+  return { ...ref, calibration: cal }
+}
+
+/** The organization of a signed-in customer user (the demo customer account belongs to one). */
+export async function organizationOf(customer: Client): Promise<number> {
+  const me = await customer.get('/api/auth/me')
+  expect(me.status).toBe(200)
+  expect(me.body.organizationId, 'a customer user has an organization').toEqual(expect.any(Number))
+  return me.body.organizationId as number
 }

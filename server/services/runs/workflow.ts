@@ -55,6 +55,17 @@ export function assertEditable(run: CalibrationRun): void {
 }
 
 /**
+ * 409 before the body is even read when a run's data cannot change now (under review, approved,
+ * void): the answer to a write on a frozen run does not depend on what was sent. The service
+ * checks again inside its transaction.
+ */
+export async function assertRunOpen(id: number): Promise<void> {
+  const run = await CalibrationRun.findByPk(id, { attributes: ['id', 'status'] })
+  if (!run) notFound('run')
+  assertEditable(run)
+}
+
+/**
  * After the first submission — and from the start on a revision that corrects an issued
  * certificate — every change needs a reason (400 naming `reason`); before it none is kept.
  */

@@ -185,14 +185,9 @@ describe('reference temperature from the source certificate (linear interpolatio
     expect(Math.abs(p.expectedReadingK - 348.31)).toBeLessThan(1e-6)
   })
   it('refuses a set-point outside the table, naming sourceIndicatedK', () => {
-    try {
-      computePoint(base({ reference: { kind: 'source-correction', sourceIndicatedK: 400, corrections } }))
-      expect.unreachable()
-    }
-    catch (e) {
-      expect(e).toBeInstanceOf(EngineInputError)
-      expect((e as EngineInputError).field).toBe('sourceIndicatedK')
-    }
+    const outside = () => computePoint(base({ reference: { kind: 'source-correction', sourceIndicatedK: 400, corrections } }))
+    expect(outside).toThrow(EngineInputError)
+    expect(outside).toThrow(expect.objectContaining({ field: 'sourceIndicatedK' }))
   })
 })
 

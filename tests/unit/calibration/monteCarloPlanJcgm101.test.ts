@@ -68,7 +68,12 @@ describe('JCGM 101 §8 validation of the GUM result', () => {
     expect(inputs.filter(d => !['normal', 'constant'].includes(d.distribution)).map(d => d.distribution)).toEqual(['rectangular', 'rectangular'])
     // the second rectangle is the 0.001 K display resolution
     expect(inputs.find(d => d.name.startsWith('Display'))).toMatchObject({ distribution: 'rectangular', halfWidth: expect.closeTo(0.0005, 15) })
-    expect(r.budget.effectiveDegreesOfFreedom).not.toBeNull()
+    // ν_eff by Welch–Satterthwaite (GUM G.2b) from the budget's own lines: u_c⁴ / Σ (|cᵢ|u(xᵢ))⁴/νᵢ over
+    // the two ν = 12 lines (ambient, uniformity); the others have ν = ∞
+    const finite = r.budget.components.filter(l => l.dof !== null)
+    expect(finite.map(l => l.name)).toEqual(['ambient', 'uniformity'])
+    const ws = r.budget.combinedStandardUncertaintyK ** 4 / finite.reduce((s, l) => s + l.contributionK ** 4 / l.dof!, 0)
+    expect(r.budget.effectiveDegreesOfFreedom).toBeCloseTo(ws, 6)
     const mc = runMonteCarlo(planModel(readingModel(LW)), inputs, { trials: 400_000, seed: 2024, coverageProbability: r.budget.coverageProbability, correlations })
     const v = validateGumResult(plan.gum, mc.coverageInterval)
     expect(v.validated).toBe(true)

@@ -25,14 +25,15 @@ function text(pdf: Buffer): string {
 }
 
 describe('certificatePdf', () => {
-  it('builds a PDF with the number and page x of y on every page, the content and the end mark', async () => {
+  it('builds a PDF file', async () => {
+    const pdf = await certificatePdf(sampleCertificateData(12, { adjusted: true, revision: 1 }))
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-')
+  })
+
+  // The text is read back with pdftotext (poppler-utils); without it the test is reported as skipped.
+  it.skipIf(!hasPdftotext)('has the number and page x of y on every page, the content and the end mark (read with pdftotext)', async () => {
     const data = sampleCertificateData(12, { adjusted: true, revision: 1 })
     const pdf = await certificatePdf(data)
-    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-')
-    if (!hasPdftotext) {
-      console.warn('pdftotext (poppler-utils) is not installed: the PDF text check is skipped')
-      return
-    }
     const t = text(pdf)
     const pages = Number(/Page 1 of (\d+)/.exec(t)![1])
     expect(pages).toBeGreaterThanOrEqual(2)

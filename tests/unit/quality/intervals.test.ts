@@ -215,7 +215,7 @@ describe('drift method against numpy/scipy (irregular dates, unequal u)', () => 
     expect(r.covariance[0][0]).toBeCloseTo(0.000168823605086906, 12)
     expect(r.covariance[0][1]).toBeCloseTo(4.64240985689453e-5, 12)
     expect(r.covariance[1][1]).toBeCloseTo(1.8750168082168e-5, 12)
-    expect(r.residualStandardDeviation).not.toBeNull()
+    expect(r.residualStandardDeviation).toBeCloseTo(0.017980122244535, 12) // √(RSS/(n − 2)), same script
     expect(r.chiSquared).toBeNull()
     expect(r.limitYears).toBeCloseTo(4.54504498673892, 9)
     expect(r.months).toBe(54)

@@ -123,6 +123,7 @@ describe('rectangular band radiance over 50–5000 K and 0.65–14 µm', () => {
 
   it('agrees with independent Gauss–Legendre quadrature of the Planck formula within 1e-13', () => {
     let worst = 0
+    let compared = 0
     for (const [l1, l2] of bands) {
       for (const T of temps) {
         const ref = referenceBand(l1, l2, T)
@@ -130,8 +131,12 @@ describe('rectangular band radiance over 50–5000 K and 0.65–14 µm', () => {
         const r = rel(bandRadiance(rect(l1, l2), T), ref)
         expect(r, `${l1}–${l2} µm at ${T} K`).toBeLessThan(2e-13)
         worst = Math.max(worst, r)
+        compared++
       }
     }
+    // every reference is representable (the smallest, 0.645–0.655 µm at 50 K, is ~1e-182), so the guard must
+    // skip none
+    expect(compared).toBe(bands.length * temps.length)
     expect(worst).toBeLessThan(2e-13)
   })
 
@@ -177,18 +182,26 @@ describe('rectangular band radiance over 50–5000 K and 0.65–14 µm', () => {
   it('agrees with the previous series evaluator within 3e-14 (value) and 1e-13 (dS/dT)', () => {
     const a = new Float64Array(2)
     const b = new Float64Array(2)
+    let cases = 0
+    let compared = 0
     for (const [l1, l2] of bands) {
       for (let T = 50; T <= 5000; T *= 1.013) {
         for (const c of [CODATA_2018, ITS_90]) {
+          cases++
           const s = rectangularRadianceSeries(l1, l2, T, c)
           if (!(s > 1e-290)) continue
           expect(rel(rectangularRadiance(l1, l2, T, c), s)).toBeLessThan(3e-14)
           rectangularRadianceAndDerivativeSeries(l1, l2, T, c, a)
           b[1] = bandRadianceDerivative(rect(l1, l2), T, c)
           expect(rel(b[1], a[1]!)).toBeLessThan(1e-13)
+          compared++
         }
       }
     }
+    // every value here is representable (≥ ~1e-182), so the guard must skip none: a series that answered NaN
+    // or 0 would otherwise leave its cases silently uncompared
+    expect(cases).toBe(bands.length * 2 * 357)
+    expect(compared).toBe(cases)
   })
 
   it('the fast path still rejects bad bands and temperatures with the field at fault', () => {

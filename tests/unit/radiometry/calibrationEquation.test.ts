@@ -81,11 +81,16 @@ const SCIPY: Record<string, Ref> = {
   },
 }
 
-/** Compares a fit with a scipy reference: parameters to 1e-6 of their standard uncertainty, covariance
- * entries to 1e-6 relative (1e-10 digits printed), χ², values to 1e-7 K and uncertainties to 1e-7 relative. */
+/** Compares a fit with a scipy reference: parameters to 1e-6 of their standard uncertainty (from scipy's
+ * covariance, not the fit's own), covariance entries to 1e-6 relative (1e-10 digits printed), χ², values to
+ * 1e-7 K and uncertainties to 1e-7 relative. */
 function expectMatches(eq: CalibrationEquation, ref: Ref): void {
   expect(eq.converged).toBe(true)
-  eq.parameters.forEach((p, i) => expect(Math.abs(p - ref.parameters[i]!)).toBeLessThan(1e-6 * eq.parameterStandardUncertainties[i]!))
+  // as many parameters and covariance entries as the reference, so the loops below cannot run empty
+  expect(eq.parameters).toHaveLength(ref.parameters.length)
+  expect(eq.covariance.map(row => row.length)).toEqual(ref.covariance.map(row => row.length))
+  eq.parameters.forEach((p, i) => expect(Math.abs(p - ref.parameters[i]!)).toBeLessThan(1e-6 * Math.sqrt(ref.covariance[i]![i]!)))
+  eq.parameterStandardUncertainties.forEach((u, i) => expect(rel(u, Math.sqrt(ref.covariance[i]![i]!))).toBeLessThan(1e-6))
   eq.covariance.forEach((row, i) => row.forEach((v, j) => expect(rel(v, ref.covariance[i]![j]!)).toBeLessThan(1e-6)))
   expect(Math.abs(eq.chiSquared - ref.chi2)).toBeLessThan(1e-9 + 1e-6 * ref.chi2)
   for (const [r, t, u] of ref.atReading) {
@@ -176,16 +181,23 @@ describe('calibration equation: Sakuma–Hattori form', () => {
     const eq = fitCalibrationEquation({ points: [P5[0]!, P5[1]!, P5[4]!], band: BAND })
     expect(eq.degreesOfFreedom).toBe(0)
     expect(eq.chiSquared).toBeLessThan(1e-18)
-    for (const r of eq.residuals) {
+    // the three points' u_i = U_i/k_i as given: 1.6/2, 2.0/2, 3.6/2.2 K
+    const givenU = [0.8, 1.0, 3.6 / 2.2]
+    expect(eq.residuals).toHaveLength(3)
+    eq.residuals.forEach((r, i) => {
       expect(Math.abs(r.residualK)).toBeLessThan(1e-8)
       // with J square and invertible, gᵀ(JᵀWJ)⁻¹g at point i is exactly u_i² (algebra, JCGM 100 5.1.2)
-      expect(rel(calibrationEquationAtReading(eq, r.readingK).standardUncertaintyK, r.standardUncertaintyK)).toBeLessThan(1e-8)
-    }
+      expect(rel(calibrationEquationAtReading(eq, r.readingK).standardUncertaintyK, givenU[i]!)).toBeLessThan(1e-8)
+    })
     expectMatches(eq, SCIPY.sh3!)
   })
 
   it('a perfect instrument gives A = A_n, B = B_n, C = 1 and no correction anywhere', () => {
     const eq = fitCalibrationEquation({ points: T5.map((t) => pt(t, t, 2, 2)), band: BAND })
+    // the nominal A, B are the band estimate of 0.8–1.0 µm (λ0 = 0.9 µm, σ² = 0.2²/12; see sakumaHattori.test.ts)
+    const sd2 = 0.2 ** 2 / 12
+    expect(eq.nominal!.A).toBeCloseTo(0.9 * (1 - (6 * sd2) / 0.9 ** 2), 12)
+    expect(eq.nominal!.B).toBeCloseTo((((6.62607015e-34 * 299792458) / 1.380649e-23) * 1e6 * sd2) / (2 * 0.9 ** 2), 9)
     expect(eq.parameters[0]).toBeCloseTo(eq.nominal!.A, 9)
     expect(eq.parameters[1]).toBeCloseTo(eq.nominal!.B, 6)
     expect(eq.parameters[2]).toBeCloseTo(1, 9)

@@ -125,13 +125,9 @@ describe('surface temperature from a radiance temperature', () => {
 
   it('rejects a radiance temperature that would need a negative emitted radiance, naming radianceTemperatureK', () => {
     // 8–14 µm: S(100 K) is far below 0.5·S(300 K), so ε_s = 0.5 would need a negative S(T_s)
-    try {
-      surfaceTemperatureFromRadianceTemperature({ band: LW, radianceTemperatureK: 100, sourceEmissivity: 0.5, reflectedTemperatureK: 300 })
-      expect.unreachable('no error')
-    } catch (e) {
-      expect(e).toBeInstanceOf(EngineInputError)
-      expect((e as EngineInputError).field).toBe('radianceTemperatureK')
-    }
+    const negative = () => surfaceTemperatureFromRadianceTemperature({ band: LW, radianceTemperatureK: 100, sourceEmissivity: 0.5, reflectedTemperatureK: 300 })
+    expect(negative).toThrow(EngineInputError)
+    expect(negative).toThrow(expect.objectContaining({ field: 'radianceTemperatureK' }))
   })
 
   it('rejects bad inputs with their field names', () => {

@@ -45,6 +45,7 @@ describe('Sakuma–Hattori equation', () => {
     const pts = [1000, 1200, 1400].map((T) => ({ temperatureK: T, signal: bandRadiance(band, T) }))
     const f = fitSakumaHattori(pts)
     expect(f.converged).toBe(true)
+    expect(f.residuals).toHaveLength(3)
     for (const r of f.residuals) expect(Math.abs(r.temperatureResidualK)).toBeLessThan(1e-8)
     for (const T of [1050, 1100, 1300, 1350]) {
       expect(Math.abs(sakumaHattoriTemperature(f, bandRadiance(band, T)) - T)).toBeLessThan(1e-3)

@@ -11,18 +11,36 @@ import {
 
 describe('coverage factor (Student t)', () => {
   it('reproduces GUM Table G.2 at p = 95.45 %', () => {
-    // JCGM 100:2008 Table G.2, column p = 95.45 %
+    // JCGM 100:2008 Table G.2, column p = 95.45 % (each entry is scipy.stats.t.ppf((1 + p)/2, ν) rounded to
+    // two decimals: tests/reference/published_tables.py)
     const table: [number | null, number][] = [[1, 13.97], [2, 4.53], [3, 3.31], [4, 2.87], [5, 2.65], [10, 2.28], [20, 2.13], [50, 2.05], [null, 2.0]]
     for (const [nu, k] of table) expect(Math.abs(coverageFactor(nu, 0.9545) - k), `ν = ${nu}`).toBeLessThan(0.005)
   })
 
-  it('reproduces Table G.2 at p = 99 % and p = 68.27 % (from memory) and 95 % (standard t tables)', () => {
-    expect(Math.abs(coverageFactor(1, 0.99) - 63.66)).toBeLessThan(0.005)
-    expect(Math.abs(coverageFactor(10, 0.99) - 3.17)).toBeLessThan(0.005)
-    expect(Math.abs(coverageFactor(null, 0.99) - 2.576)).toBeLessThan(0.0005)
-    expect(Math.abs(coverageFactor(1, 0.6827) - 1.84)).toBeLessThan(0.005)
-    expect(Math.abs(coverageFactor(1, 0.95) - 12.71)).toBeLessThan(0.005)
-    expect(Math.abs(coverageFactor(null, 0.95) - 1.96)).toBeLessThan(0.0005)
+  it('Table G.2 at p = 99 %, 68.27 % and 95 %: the Student t quantiles computed by scipy, to 1e-12 relative', () => {
+    // Printed by tests/reference/published_tables.py (scipy 1.17.1): t_p(ν) = scipy.stats.t.ppf((1 + p)/2, ν),
+    // scipy.stats.norm.ppf((1 + p)/2) for ν = ∞. The same script checks that JCGM 100:2008 Table G.2's
+    // entries (63.66, 3.17, 2.576, 1.84, 12.71, 1.960; quoted here before from memory) are these values
+    // rounded to the table's digits. Columns: [ν (null = ∞), p, t_p(ν)].
+    const SCIPY: [number | null, number, number][] = [
+      [1, 0.99, 63.656741162871526],
+      [10, 0.99, 3.16927267261695],
+      [null, 0.99, 2.5758293035489004],
+      [1, 0.6827, 1.837409429490547],
+      [1, 0.95, 12.706204736174694],
+      [null, 0.95, 1.959963984540054],
+      // and the p = 95.45 % column above, unrounded
+      [1, 0.9545, 13.96781148750255],
+      [2, 0.9545, 4.526550760081986],
+      [3, 0.9545, 3.306829920720108],
+      [4, 0.9545, 2.8693151696963826],
+      [5, 0.9545, 2.6486542542831177],
+      [10, 0.9545, 2.28368161329964],
+      [20, 0.9545, 2.133028361890896],
+      [50, 0.9545, 2.0512507818518815],
+      [null, 0.9545, 2.0000024438996027],
+    ]
+    for (const [nu, p, k] of SCIPY) expect(Math.abs(coverageFactor(nu, p) / k - 1), `ν = ${nu}, p = ${p}`).toBeLessThan(1e-12)
   })
 
   it('for ν = ∞ gives the normal quantile: erf(k/√2) = p (mathjs erf as the independent check)', () => {
@@ -190,9 +208,11 @@ describe('budget', () => {
       dof: i % 3 === 0 ? undefined : 10 + i,
     }))
     const r = evaluateBudget(comps)
-    let v = 0
-    for (const c of r.contributions) v += c.contribution ** 2
-    expect(r.combinedStandardUncertainty).toBeCloseTo(Math.sqrt(v), 12)
+    // |cᵢ|·u(xᵢ) by hand: a/2 (normal, k = 2), a/√3, a/√6, a/√2 (GUM 4.3.7, 4.3.9), times cᵢ = 1 + i/10
+    const divisor = [2, Math.sqrt(3), Math.sqrt(6), Math.SQRT2]
+    const expected = comps.map((_, i) => ((0.1 * (i + 1)) / divisor[i % 4]!) * (1 + i / 10))
+    expect(r.contributions.map(c => c.contribution)).toEqual(expected.map(v => expect.closeTo(v, 14)))
+    expect(r.combinedStandardUncertainty).toBeCloseTo(Math.sqrt(expected.reduce((s, v) => s + v * v, 0)), 12)
     expect(Object.keys(r)).toEqual(expect.arrayContaining(['combinedStandardUncertainty', 'effectiveDegreesOfFreedom', 'coverageFactor', 'expandedUncertainty', 'contributions']))
     expect(Object.keys(r.contributions[0]!)).toEqual(expect.arrayContaining(['name', 'standardUncertainty', 'contribution', 'percent']))
   })

@@ -98,13 +98,9 @@ describe('correlated inputs (JCGM 101 6.4.8)', () => {
     expect(Math.abs(c.copula!.pairs[0]!.normalCoefficient - 0.9 / Math.sqrt(3 / Math.PI))).toBeLessThan(1e-12)
     const [a, b] = draw(inputs, [{ between: [0, 1], coefficient: 0.9 }], M)
     expect(Math.abs(correlation(a!, b!) - 0.9)).toBeLessThan(corrTol(0.9, M))
-    try {
-      compileInputs(inputs, [{ between: [0, 1], coefficient: 0.99 }])
-      expect.unreachable('r = 0.99 exceeds √(3/π) = 0.977')
-    } catch (e) {
-      expect(e).toBeInstanceOf(EngineInputError)
-      expect((e as EngineInputError).field).toBe('correlations[0].coefficient')
-    }
+    // r = 0.99 exceeds √(3/π) = 0.977: refused, naming the coefficient
+    expect(() => compileInputs(inputs, [{ between: [0, 1], coefficient: 0.99 }])).toThrow(EngineInputError)
+    expect(() => compileInputs(inputs, [{ between: [0, 1], coefficient: 0.99 }])).toThrow(expect.objectContaining({ field: 'correlations[0].coefficient' }))
   })
 
   it('other marginals: the normal-scale r* reproduces scipy (dblquad) to 1e-9', () => {
