@@ -94,13 +94,16 @@ export interface CertificateVerificationDTO {
   supersededBy: string | null
 }
 
-/** GET /api/instruments/[id]/history: each certified calibration (valid certificates) with its points. */
+/** GET /api/instruments/[id]/history: each certified calibration (valid certificates) with its points, and what is no longer valid. */
 export interface InstrumentHistoryDTO {
   instrumentId: number
   calibrations: {
     certificateId: number
     number: string
     calibrationDate: string
-    points: { stage: 'as-found' | 'as-left', referenceTemperatureK: number, errorK: number, uncertaintyK: number, toleranceK: number, verdict: string }[]
+    /** As the certificate states them; tolerance and verdict only where it states conformity (an agreement was on record). */
+    points: { stage: 'as-found' | 'as-left', referenceTemperatureK: number, errorK: number, uncertaintyK: number, toleranceK: number | null, verdict: string | null }[]
   }[]
+  /** Certificates of the instrument that are no longer valid: withdrawn (on, why) or superseded (by which revision). Newest first. */
+  notices: { certificateId: number, number: string, status: 'withdrawn' | 'superseded', on: string | null, reason: string | null, supersededBy: string | null }[]
 }

@@ -701,17 +701,19 @@ function closingBlock(w: Writer, d: CertificateData): Promise<void> {
     w.font('regular', 7.8, MUTED)
     const signed = new Date(d.signatory.signedAt)
     doc.text(d.draft
-      ? `Preview made on ${longDate(d.signatory.signedAt)} for review before signing. It is not a certificate: it has no number, no signature and no verification code.`
+      ? `Preview made on ${longDate(d.signatory.signedAt)} for review before signing. It is not a valid certificate: it has no number, no signature and no verification code.`
       : `Signed electronically on ${longDate(d.signatory.signedAt)} at ${signed.toISOString().slice(11, 16)} UTC; the signature means “${d.signatory.meaning}” and was made by the signatory re-entering their password.`, MARGIN.left + 14, top + 62, { width: 300, lineGap: 1 })
-    // QR code to the verification page.
-    const qx = PAGE.width - MARGIN.right - 14 - 80
-    drawQr(doc, d.verification.url, qx, top + 14, 80)
-    w.font('regular', 7, MUTED)
-    doc.text('Verify this certificate', qx - 100, top + 16, { width: 92, align: 'right', lineBreak: false })
-    w.font('semibold', 9, INK)
-    doc.text(d.verification.code.replace(/(.{5})(.{5})/, '$1 $2'), qx - 100, top + 27, { width: 92, align: 'right', lineBreak: false })
-    w.font('regular', 6.6, MUTED)
-    doc.text('Scan the code or enter the number and this code on the laboratory’s verification page.', qx - 100, top + 41, { width: 92, align: 'right', lineGap: 0.5 })
+    // QR code to the verification page (a draft has nothing to verify).
+    if (!d.draft) {
+      const qx = PAGE.width - MARGIN.right - 14 - 80
+      drawQr(doc, d.verification.url, qx, top + 14, 80)
+      w.font('regular', 7, MUTED)
+      doc.text('Verify this certificate', qx - 100, top + 16, { width: 92, align: 'right', lineBreak: false })
+      w.font('semibold', 9, INK)
+      doc.text(d.verification.code.replace(/(.{5})(.{5})/, '$1 $2'), qx - 100, top + 27, { width: 92, align: 'right', lineBreak: false })
+      w.font('regular', 6.6, MUTED)
+      doc.text('Scan the code or enter the number and this code on the laboratory’s verification page.', qx - 100, top + 41, { width: 92, align: 'right', lineGap: 0.5 })
+    }
     w.y = top + blockH + 14
     // The end mark.
     const cy = w.y + 6
@@ -747,7 +749,9 @@ function frame(doc: Doc, d: CertificateData): void {
     doc.save().moveTo(MARGIN.left, fy).lineTo(PAGE.width - MARGIN.right, fy).lineWidth(0.5).strokeColor(RULE).stroke().restore()
     doc.font('Plex').fontSize(6.8).fillColor(MUTED)
     doc.text(`${d.lab.name} · accredited calibration laboratory No. ${d.lab.accreditationNumber}`, MARGIN.left, fy + 6, { width: CONTENT_W - 130, lineBreak: false })
-    doc.text(`Verify: ${d.verification.url.replace(/^https?:\/\//, '').replace(/\?.*$/, '')} · code ${d.verification.code}`, MARGIN.left, fy + 16, { width: CONTENT_W - 130, lineBreak: false, ellipsis: true })
+    doc.text(d.draft
+      ? 'Draft for review before signing — not a valid certificate'
+      : `Verify: ${d.verification.url.replace(/^https?:\/\//, '').replace(/\?.*$/, '')} · code ${d.verification.code}`, MARGIN.left, fy + 16, { width: CONTENT_W - 130, lineBreak: false, ellipsis: true })
     doc.text(d.number, PAGE.width - MARGIN.right - 130, fy + 6, { width: 130, align: 'right', lineBreak: false })
     if (d.draft) {
       // A preview is marked on every page: it is not a certificate.
