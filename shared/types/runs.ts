@@ -331,6 +331,8 @@ export interface RunRevisionDTO {
   id: number
   runId: number
   pointId: number | null
+  /** The point's number in the run (null for a change of the header or the receipt). */
+  pointNumber: number | null
   userId: number
   userName: string | null
   at: string

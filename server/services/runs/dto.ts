@@ -122,11 +122,13 @@ export function runPointDTO(p: RunPoint, tags: { source?: string | null, referen
   }
 }
 
-export function runRevisionDTO(r: RunRevision, userName: string | null): RunRevisionDTO {
+/** A revision of a run's data; `pointNumber` is the point's number in the run (its `seq`), as people name it. */
+export function runRevisionDTO(r: RunRevision, userName: string | null, pointNumber: number | null = null): RunRevisionDTO {
   return {
     id: r.id,
     runId: r.runId,
     pointId: r.pointId ?? null,
+    pointNumber,
     userId: r.userId,
     userName,
     at: r.at.toISOString(),

@@ -134,7 +134,8 @@ export async function runDetail(id: number): Promise<RunDetailDTO> {
   const users = userIds.length ? await User.findAll({ where: { id: userIds }, attributes: ['id', 'name'] }) : []
   const userName = new Map(users.map(u => [u.id, u.name]))
   const audit: AuditEventDTO[] = auditRows.map(a => auditDTO(a, a.userId ? userName.get(a.userId) ?? null : null))
-  const revisionDTOs = revisions.map(r => runRevisionDTO(r, userName.get(r.userId) ?? null))
+  const seqOf = new Map(points.map(p => [p.id, p.seq]))
+  const revisionDTOs = revisions.map(r => runRevisionDTO(r, userName.get(r.userId) ?? null, r.pointId ? seqOf.get(r.pointId) ?? null : null))
   // What the reviewer has not seen: revisions after the last review (a return), while the run is back for review.
   const since = run.lastReviewedVersion !== null && run.reviewedAt ? run.reviewedAt.getTime() : null
   const [certificate, corrected] = await Promise.all([
