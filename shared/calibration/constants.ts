@@ -12,6 +12,13 @@ export const DECISION_RULE_LABELS: Record<DecisionRuleName, string> = {
   'non-binary': 'Non-binary statement (pass, conditional pass, conditional fail, fail)',
 }
 
+/** The rule's name alone, for text that states its guard band separately (the certificate). */
+export const DECISION_RULE_NAMES: Record<DecisionRuleName, string> = {
+  'simple-acceptance': 'Simple acceptance',
+  'guard-band': 'Guarded acceptance',
+  'non-binary': 'Non-binary statement',
+}
+
 /** GUM 4.2 / 4.3: Type A (statistics of repeated observations) or Type B (other information). */
 export const COMPONENT_TYPES = ['A', 'B'] as const
 export type ComponentType = (typeof COMPONENT_TYPES)[number]

@@ -7,7 +7,7 @@
  * on record — the agreed specification and decision rule. Refusals name what is missing.
  */
 import type { Transaction } from 'sequelize'
-import { COVERAGE_PROBABILITY, CONDITION_LABELS, DECISION_RULE_LABELS, type ConditionField } from '#shared/calibration/constants'
+import { COVERAGE_PROBABILITY, CONDITION_LABELS, DECISION_RULE_NAMES, type ConditionField } from '#shared/calibration/constants'
 import { celsiusFixed, describeAccuracy, describeBand, formatFixed } from '#shared/format'
 import { INSTRUMENT_KIND_LABELS, REFERENCE_KIND_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
 import type { RunAgreementDTO } from '#shared/types'
@@ -45,7 +45,7 @@ function agreementText(a: RunAgreementDTO): CertificateData['agreement'] {
   return {
     agreedOn: a.agreedAt.slice(0, 10),
     how: a.method === 'portal' ? 'accepted by the customer in the portal' : `recorded by the laboratory: ${a.note ?? 'agreed with the customer'}`,
-    ruleLabel: DECISION_RULE_LABELS[a.decisionRule],
+    ruleLabel: DECISION_RULE_NAMES[a.decisionRule],
     guardBandText: a.decisionRule === 'simple-acceptance' ? 'w = 0' : `w = r·U with r = ${a.guardBandFactor ?? 1}`,
     ruleReference: 'ILAC-G8:09/2019',
     specificationText: `the specification agreed, ${describeAccuracy(a.specification)}`,

@@ -62,11 +62,11 @@ export function sampleCertificateData(points = 12, opts: { adjusted?: boolean, r
     ],
     statements: {
       traceability: 'The measurements are traceable to the International System of Units (SI) through the ITS-90 realized by national metrology institutes, by way of the laboratory’s reference standards listed below and their calibrations.',
-      decisionRule: 'The statement of conformity applies to the points measured and is made against the specification the customer named.',
+      decisionRule: 'The statement of conformity applies only to the points measured.',
       items: 'The results relate only to the items calibrated.',
       reproduction: 'This certificate shall not be reproduced except in full without the written approval of the laboratory.',
     },
-    agreement: opts.agreed === false ? null : { agreedOn: '2026-10-28', how: 'accepted by the customer in the portal', ruleLabel: 'Simple acceptance (no guard band)', guardBandText: '', ruleReference: 'ILAC-G8:09/2019', specificationText: 'the manufacturer’s specification, ±1 % of reading or ±1 °C, whichever is greater' },
+    agreement: opts.agreed === false ? null : { agreedOn: '2026-10-28', how: 'accepted by the customer in the portal', ruleLabel: 'Simple acceptance', guardBandText: 'w = 0', ruleReference: 'ILAC-G8:09/2019', specificationText: 'the specification agreed, ±1 % of reading or ±1 °C, whichever is greater' },
     remarks: adjusted ? 'Found reading low; the offset was adjusted with the maker’s service software and the instrument measured again.' : null,
     signatory: { name: 'Quinn Halvorsen', function: 'Quality manager', meaning: 'authorized for issue', signedAt: '2026-11-12T10:24:00.000Z' },
     verification: { code: '7K2M9QXP4R', url: `http://localhost:3000/verify?number=${encodeURIComponent(number)}&code=7K2M9QXP4R` },
