@@ -22,7 +22,7 @@ import { RunRevision } from '#server/models/RunRevision'
 import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { assertVersion, conflict, engine, invalidInput, notFound } from '#server/utils/errors'
 import { assertUsableOn } from '#server/services/equipment/usability'
-import { Equipment, computationInput, loadRunContext, observationOf, pointColumns, pointRecord, refusal } from './context'
+import { Equipment, computationInput, fitProblem, loadRunContext, observationOf, pointColumns, pointRecord, refusal } from './context'
 
 /** Who makes a change (the signed-in user, or a demo account in the seed). */
 export interface Actor {
@@ -30,8 +30,9 @@ export interface Actor {
 }
 
 /** Header fields whose change alters the computed points. */
-const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate'] as const
-const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId'] as const
+/** Header fields the points' results depend on (the reading model's inputs, the procedure, the equipment's date; the spot check's distance and spot). */
+const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate', 'distanceMm', 'spotDiameterMm'] as const
+const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'spotDiameterMm', 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId'] as const
 
 export const LOCKED_MESSAGE = 'approved runs cannot change'
 export const FROZEN_MESSAGE = 'the run is under review: nothing in it can change until the reviewer returns it'
@@ -151,7 +152,10 @@ async function recomputePoints(t: Transaction, actor: Actor, run: CalibrationRun
       const r = await eq.reference(obs.referenceInstrumentId)
       if (r.reason) invalidInput({ calibrationDate: refusal(r.row?.assetTag ?? `Reference ${obs.referenceInstrumentId}`, run.calibrationDate, r.reason) })
     }
-    const result = engine(() => computePoint(computationInput(run, ctx, obs, s.row!)))
+    const problem = fitProblem(run, ctx, s.row!, obs)
+    if (problem) invalidInput({ [problem.field]: `Point ${p.seq}: ${problem.message}` })
+    const used = await eq.used(obs)
+    const result = engine(() => computePoint(computationInput(run, ctx, obs, s.row!, used)))
     const before = pointRecord(p)
     p.set({ ...pointColumns(obs, result), monteCarlo: null })
     await p.save({ transaction: t })
