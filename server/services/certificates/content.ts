@@ -10,7 +10,7 @@ import type { Transaction } from 'sequelize'
 import { COVERAGE_PROBABILITY, CONDITION_LABELS, DECISION_RULE_LABELS, type ConditionField } from '#shared/calibration/constants'
 import { celsiusFixed, describeAccuracy, describeBand, formatFixed } from '#shared/format'
 import { INSTRUMENT_KIND_LABELS, REFERENCE_KIND_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
-import type { RunAgreementDTO } from '#shared/types'
+import type { PointResult, RunAgreementDTO } from '#shared/types'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import type { CalibrationRun } from '#server/models/CalibrationRun'
 import { Instrument } from '#server/models/Instrument'
@@ -50,6 +50,37 @@ function agreementText(a: RunAgreementDTO): CertificateData['agreement'] {
     ruleReference: 'ILAC-G8:09/2019',
     specificationText: `the specification agreed, ${describeAccuracy(a.specification)}`,
   }
+}
+
+const um = (v: number) => String(Number(v.toPrecision(6)))
+
+/**
+ * What the reference temperature of a source's points is, and the source emissivity used, in the
+ * certificate's words — from what the points were computed with (their stored inputs), so the statement
+ * and the numbers cannot disagree.
+ * @param source - the source (asset tag and kind)
+ * @param results - the results of the run's points on this source
+ * @returns one or two sentences
+ */
+export function basisStatement(source: BlackbodySource, results: PointResult[], referenceTags: string[]): string {
+  const kind = SOURCE_KIND_LABELS[source.kind].toLowerCase()
+  const onSource = results.filter(r => r.inputs.reference.kind === 'source-correction')
+  const emissivities = [...new Set(results.map(r => r.inputs.sourceEmissivity))]
+  const eps = `The source emissivity used in the reading model is ε_s = ${emissivities.map(e => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')).join(', ')} in the instrument’s band.`
+  const parts: string[] = []
+  const basis = onSource.map(r => r.inputs.reference.kind === 'source-correction' ? r.inputs.reference.basis : undefined)[0]
+  if (onSource.length) {
+    if (basis?.kind === 'radiance-temperature') {
+      const b = basis.band
+      parts.push(`${source.assetTag} (${kind}): its calibration certificate states radiance temperatures in ${um(b.lambda1Um)}–${um(b.lambda2Um)} µm (wavelengths ${b.medium === 'air' ? 'in air' : 'in vacuum'}) — what an ideal instrument with emissivity setting 1 reads on the source — with the surroundings at ${celsiusFixed(basis.reflectedTemperatureK, 1)} °C. The reference temperature is that radiance temperature at the set-point, corrected as the certificate states; the source’s surface temperature in the reading model follows from it with the source emissivity in that band and those surroundings.`)
+    }
+    else {
+      const what = basis?.kind === 'cavity-temperature' ? 'cavity temperature' : basis?.kind === 'surface-temperature' ? 'surface (contact) temperature' : 'temperature'
+      parts.push(`${source.assetTag} (${kind}): its calibration certificate states the source’s ${what}; the reference temperature is that temperature at the set-point, corrected as the certificate states, and is the source temperature in the reading model.`)
+    }
+  }
+  if (referenceTags.length) parts.push(`Where a reference thermometer (${referenceTags.join(', ')}) is listed for ${source.assetTag}, the reference temperature is its reading in the source.`)
+  return `${parts.join(' ')} ${eps}`
 }
 
 /**
@@ -101,12 +132,11 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
   const accuracyText = describeAccuracy(instrument.accuracy)
   const customerAddress = [...lines(organization.addressLines), [organization.postcode, organization.city].filter(Boolean).join(' '), organization.country ?? ''].filter(Boolean)
   const labAddress = [...lines(settings.addressLines), [settings.postcode, settings.city].filter(Boolean).join(' '), settings.country].filter(Boolean)
-  const viaReference = points.some(p => p.referenceInstrumentId !== null)
-  const viaSource = points.some(p => p.referenceInstrumentId === null)
-  const referenceBasis = [
-    viaSource ? 'The reference temperature is the source’s indicated temperature with the correction its calibration certificate states.' : '',
-    viaReference ? 'Where a reference thermometer is listed, the reference temperature is its reading.' : '',
-  ].filter(Boolean).join(' ')
+  const referenceBasis = sources.map((s) => {
+    const own = points.filter(p => p.sourceId === s.id)
+    const tags = [...new Set(own.map(p => p.referenceInstrumentId).filter((v): v is number => v !== null))].map(id => refs.find(r => r.id === id)?.assetTag ?? `#${id}`)
+    return basisStatement(s, own.map(p => p.result), tags)
+  }).join(' ')
   return {
     run,
     instrument,
@@ -166,6 +196,7 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
         toleranceK: p.result.conformity.tolerance,
         acceptanceLimitK: p.result.conformity.acceptanceLimit,
         verdict: p.result.conformity.verdict,
+        probabilityOfConformity: p.result.conformity.probabilityOfConformity ?? null,
       })),
       coverageProbability: first.budget.coverageProbability ?? COVERAGE_PROBABILITY,
       equipment,
