@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
-import type { CertifiedBasis, EquipmentStatus, SourceKind, WavelengthMediumName } from '#shared/registers/constants'
+import { DEFAULT_CERTIFIED_BASIS, type CertifiedBasis, type EquipmentStatus, type SourceKind, type WavelengthMediumName } from '#shared/registers/constants'
 import { sequelize } from '#server/utils/db'
 
 /**
@@ -31,8 +31,11 @@ export class BlackbodySource extends Model<InferAttributes<BlackbodySource>, Inf
   declare emissivityTable: [number, number, number][] | null
   /** `[setPointK, correctionK]` rows from the source's certificate. */
   declare corrections: CreationOptional<[number, number][]>
-  /** What the corrected value is (migration 0010 recorded the kind's own temperature for earlier sources). */
-  declare certifiedBasis: CertifiedBasis
+  /**
+   * What the corrected value is. Not given: the kind's own temperature (DEFAULT_CERTIFIED_BASIS), as
+   * migration 0010 recorded for earlier sources.
+   */
+  declare certifiedBasis: CreationOptional<CertifiedBasis>
   /** A radiance temperature's band, µm, and whether its wavelengths are in vacuum or in air; null otherwise. */
   declare certifiedBandLambda1Um: number | null
   declare certifiedBandLambda2Um: number | null
@@ -83,5 +86,14 @@ BlackbodySource.init(
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },
-  { sequelize, tableName: 'blackbody_sources', version: true },
+  {
+    sequelize,
+    tableName: 'blackbody_sources',
+    version: true,
+    hooks: {
+      beforeValidate: (s: BlackbodySource) => {
+        if (s.certifiedBasis == null && s.kind) s.certifiedBasis = DEFAULT_CERTIFIED_BASIS[s.kind]
+      },
+    },
+  },
 )

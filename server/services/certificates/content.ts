@@ -66,7 +66,7 @@ export function basisStatement(source: BlackbodySource, results: PointResult[], 
   const kind = SOURCE_KIND_LABELS[source.kind].toLowerCase()
   const onSource = results.filter(r => r.inputs.reference.kind === 'source-correction')
   const emissivities = [...new Set(results.map(r => r.inputs.sourceEmissivity))]
-  const eps = `The source emissivity used in the reading model is ε_s = ${emissivities.map(e => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')).join(', ')} in the instrument’s band.`
+  const eps = `The emissivity of ${source.assetTag} used in the reading model is ${emissivities.map(e => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')).join(', ')} in the instrument’s band.`
   const parts: string[] = []
   const basis = onSource.map(r => r.inputs.reference.kind === 'source-correction' ? r.inputs.reference.basis : undefined)[0]
   if (onSource.length) {
