@@ -297,6 +297,7 @@ export function computePoint(input: PointComputationInput): PointResult {
       standardUncertainty: templateStandardUncertainty(c, valueOf[c.input], i, list),
       sensitivity: sensitivityFor(c.input, sens, `${list}[${i}].input`),
       dof: c.dof ?? null,
+      ...(c.distribution === 'normal' ? { coverageFactor: c.coverageFactor } : {}),
       ...(origin !== undefined ? { origin } : {}),
     }
   }

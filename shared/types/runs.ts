@@ -115,6 +115,8 @@ export interface BudgetLine {
   distribution: BudgetLineDistribution
   /** The stated value in `unit` (for `resolution`: the full step δ; for repeatability: s/√n). */
   value: number
+  /** k of a normal line's expanded uncertainty `value` (u = value/k); absent for other distributions. */
+  coverageFactor?: number | null
   unit: ComponentUnit
   /** u(xᵢ) in the input's unit (K for temperatures and the reading, absolute emissivity for emissivities). */
   standardUncertainty: number

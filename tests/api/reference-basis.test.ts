@@ -173,7 +173,7 @@ describe('the source must fit the instrument: spot against aperture (refused nam
     expect(taken.status, JSON.stringify(taken.body)).toBe(201)
     expect(taken.body.result.budget.notes.join(' ')).toContain('Spot 16.7 mm (at 200 mm with D:S 12:1) within')
     // moving back to 300 mm is refused while the point stands: its spot would overfill the aperture
-    const back = await tech.patch(`/api/runs/${run.id}`, { version: closer.body.version, distanceMm: 300 })
+    const back = await tech.patch(`/api/runs/${run.id}`, { version: (await tech.get(`/api/runs/${run.id}`)).body.version, distanceMm: 300 })
     expect(back.status).toBe(400)
     expect(back.body.data.fields.distanceMm).toMatch(/Point 1: .*25\.0 mm.*40\.0 mm/)
   })
@@ -219,7 +219,7 @@ describe('budgets assembled from the equipment used, each line naming its origin
     expect(byName.Ambient).toMatchObject({ origin: procedure })
     const cert = plate.calibration!.certificateNumber
     expect(byName[`Certified value of ${plate.assetTag} (radiance temperature in a stated band (emissivity setting 1))`]).toMatchObject({
-      input: 'radianceTemperature', distribution: 'normal', value: 0.3, standardUncertainty: 0.15,
+      input: 'radianceTemperature', distribution: 'normal', value: 0.3, coverageFactor: 2, standardUncertainty: 0.15,
       origin: `${plate.assetTag} certified data (U = 0.3 K, k = 2), certificate ${cert}`,
     })
     expect(byName[`Emissivity of ${plate.assetTag} in the instrument’s band`]).toMatchObject({ standardUncertainty: 0.005, origin: expect.stringContaining(`stated for 8–14 µm, certificate ${cert}`) })
