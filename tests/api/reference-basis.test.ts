@@ -8,10 +8,14 @@
 // Independent values: scipy (tests/reference/reference_basis.py: scipy.integrate.quad epsrel 1e-13 and
 // scipy.optimize.brentq xtol 1e-13, pasted below), hand arithmetic written beside each check, and erf from
 // mathjs for Φ.
+import { execFileSync } from 'node:child_process'
+import fs from 'node:fs'
+import os from 'node:os'
+import path from 'node:path'
 import { erf } from 'mathjs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { makeCustomer, makeInstrument, makeProcedure, makeReference, makeRun, makeSource } from '../support/factories'
-import { type Client, signedIn } from '../support/http'
+import { BASE_URL, type Client, signedIn } from '../support/http'
 
 let tech: Client
 let quality: Client
@@ -24,6 +28,16 @@ const C2_CODATA = 1.438776877e-2
 const C2_ITS90 = 0.014388
 // Φ(z) = ½(1 + erf(z/√2)), erf from mathjs (independent of the engine's normal.ts)
 const phi = (z: number): number => 0.5 * (1 + (erf(z / Math.SQRT2) as number))
+
+const hasPdftotext = (() => {
+  try {
+    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
+    return true
+  }
+  catch {
+    return false
+  }
+})()
 
 // tests/reference/reference_basis.py, part 2
 // [label, b0 (µm), b0 in air, b (µm), T_rad K, eps_s, T_w0 K, T_w K, T_d K, eps_i, c2 m K, T_s K, T_meas K]
@@ -73,6 +87,20 @@ describe('POST /api/calculations/expected-reading from a radiance temperature (c
     expect(r.body.sourceTemperatureK).toBe(373.15)
     expect(Math.abs(r.body.c2 - C2_CODATA)).toBeLessThan(1e-11) // CODATA's 10 digits
     expect(r.body.constants).toBe('CODATA-2018')
+  })
+
+  it('the Monte Carlo and band-radiance answers name the constants too; ITS-90 changes the band radiance by its c2', async () => {
+    const inputs = Object.fromEntries(['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'].map(k => [k, { distribution: 'constant', value: k.endsWith('K') ? 373.15 : 1 }]))
+    inputs.sourceTemperatureK = { distribution: 'normal', value: 373.15, standardUncertainty: 0.1 }
+    const mc = await tech.post('/api/calculations/monte-carlo', { band: LW, inputs, trials: 2000, constants: 'ITS-90' })
+    expect(mc.status, JSON.stringify(mc.body)).toBe(200)
+    expect(mc.body).toMatchObject({ constants: 'ITS-90', c2: C2_ITS90 })
+    const a = await tech.post('/api/calculations/band-radiance', { band: LW, temperatureK: 1000 })
+    const b = await tech.post('/api/calculations/band-radiance', { band: LW, temperatureK: 1000, constants: 'ITS-90' })
+    expect(a.body.constants).toBe('CODATA-2018')
+    expect(b.body).toMatchObject({ constants: 'ITS-90', c2: C2_ITS90 })
+    // a larger c2 lowers the radiance: L ∝ 1/(exp(c2/λT) − 1), so the two answers differ (by a few parts in 10⁵ here)
+    expect(b.body.radiance).toBeLessThan(a.body.radiance)
   })
 
   const body = { band: LW, sourceEmissivity: 0.95, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.15, emissivitySetting: 0.95 }
@@ -326,5 +354,23 @@ describe('the demo plate (BB-FP-01, radiance temperatures in 8–14 µm) and its
       }
     }
     expect(compared).toBeGreaterThanOrEqual(3)
+  })
+
+  // The text is read back with pdftotext (poppler-utils); without it this test is reported as skipped.
+  it.skipIf(!hasPdftotext)('its certificate names the basis of the reference temperature, the plate’s emissivity, and the probability of conformity beside each verdict', async () => {
+    const instrument = (await tech.get('/api/instruments?q=KF-IR-013')).body.rows.find((i: { assetTag: string }) => i.assetTag === 'KF-IR-013')
+    const certs = (await quality.get(`/api/certificates?instrumentId=${instrument.id}&pageSize=50`)).body.rows as { id: number, status: string }[]
+    const valid = certs.find(c => c.status === 'valid')
+    expect(valid, 'the demo certificate of KF-IR-013').toBeTruthy()
+    const res = await fetch(`${BASE_URL}/api/certificates/${valid!.id}/pdf`, { headers: { cookie: quality.cookieHeader() } })
+    expect(res.status).toBe(200)
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-basis-'))
+    const file = path.join(dir, 'c.pdf')
+    fs.writeFileSync(file, Buffer.from(await res.arrayBuffer()))
+    const text = execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
+    for (const s of ['BB-FP-01 (flat plate): its calibration certificate states radiance temperatures in 8–14 µm', 'emissivity setting 1', 'with the surroundings at 23.0 °C',
+      'The emissivity of BB-FP-01 used in the reading model is 0.95', 'pass (probability of conformity']) {
+      expect(text, s).toContain(s)
+    }
   })
 })

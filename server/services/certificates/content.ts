@@ -10,7 +10,7 @@ import type { Transaction } from 'sequelize'
 import { COVERAGE_PROBABILITY, CONDITION_LABELS, DECISION_RULE_LABELS, type ConditionField } from '#shared/calibration/constants'
 import { celsiusFixed, describeAccuracy, describeBand, formatFixed } from '#shared/format'
 import { INSTRUMENT_KIND_LABELS, REFERENCE_KIND_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
-import type { PointResult, RunAgreementDTO } from '#shared/types'
+import type { RunAgreementDTO } from '#shared/types'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import type { CalibrationRun } from '#server/models/CalibrationRun'
 import { Instrument } from '#server/models/Instrument'
@@ -24,6 +24,7 @@ import { SpectralResponse } from '#server/models/SpectralResponse'
 import { conflict } from '#server/utils/errors'
 import { calibrationsOf } from '#server/services/equipment/calibrations'
 import { agreementOf } from '#server/services/requests/agreement'
+import { basisStatement } from './basis'
 import type { CertificateData, CertificateEquipment } from './pdf'
 
 const lines = (s: string | null | undefined) => (s ?? '').split(/\r?\n/).map(l => l.trim()).filter(Boolean)
@@ -50,37 +51,6 @@ function agreementText(a: RunAgreementDTO): CertificateData['agreement'] {
     ruleReference: 'ILAC-G8:09/2019',
     specificationText: `the specification agreed, ${describeAccuracy(a.specification)}`,
   }
-}
-
-const um = (v: number) => String(Number(v.toPrecision(6)))
-
-/**
- * What the reference temperature of a source's points is, and the source emissivity used, in the
- * certificate's words — from what the points were computed with (their stored inputs), so the statement
- * and the numbers cannot disagree.
- * @param source - the source (asset tag and kind)
- * @param results - the results of the run's points on this source
- * @returns one or two sentences
- */
-export function basisStatement(source: BlackbodySource, results: PointResult[], referenceTags: string[]): string {
-  const kind = SOURCE_KIND_LABELS[source.kind].toLowerCase()
-  const onSource = results.filter(r => r.inputs.reference.kind === 'source-correction')
-  const emissivities = [...new Set(results.map(r => r.inputs.sourceEmissivity))]
-  const eps = `The emissivity of ${source.assetTag} used in the reading model is ${emissivities.map(e => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')).join(', ')} in the instrument’s band.`
-  const parts: string[] = []
-  const basis = onSource.map(r => r.inputs.reference.kind === 'source-correction' ? r.inputs.reference.basis : undefined)[0]
-  if (onSource.length) {
-    if (basis?.kind === 'radiance-temperature') {
-      const b = basis.band
-      parts.push(`${source.assetTag} (${kind}): its calibration certificate states radiance temperatures in ${um(b.lambda1Um)}–${um(b.lambda2Um)} µm (wavelengths ${b.medium === 'air' ? 'in air' : 'in vacuum'}) — what an ideal instrument with emissivity setting 1 reads on the source — with the surroundings at ${celsiusFixed(basis.reflectedTemperatureK, 1)} °C. The reference temperature is that radiance temperature at the set-point, corrected as the certificate states; the source’s surface temperature in the reading model follows from it with the source emissivity in that band and those surroundings.`)
-    }
-    else {
-      const what = basis?.kind === 'cavity-temperature' ? 'cavity temperature' : basis?.kind === 'surface-temperature' ? 'surface (contact) temperature' : 'temperature'
-      parts.push(`${source.assetTag} (${kind}): its calibration certificate states the source’s ${what}; the reference temperature is that temperature at the set-point, corrected as the certificate states, and is the source temperature in the reading model.`)
-    }
-  }
-  if (referenceTags.length) parts.push(`Where a reference thermometer (${referenceTags.join(', ')}) is listed for ${source.assetTag}, the reference temperature is its reading in the source.`)
-  return `${parts.join(' ')} ${eps}`
 }
 
 /**

@@ -8,7 +8,7 @@ import { computePoint } from '../../../shared/calibration/compute'
 import { monteCarloPlan, monteCarloPlanInputs, planReadingModel } from '../../../shared/calibration/monteCarloPlan'
 import { bandSpanUm, emissivityForBand, spotFit, spotProblem, tableMean } from '../../../shared/calibration/setup'
 import { EngineInputError } from '../../../shared/radiometry/errors'
-import { readingSensitivities } from '../../../shared/radiometry/reading'
+import { readingModel, readingSensitivities } from '../../../shared/radiometry/reading'
 import { runMonteCarlo, validateGumResult } from '../../../shared/uncertainty/montecarlo'
 import type { EquipmentLine, PointComputationInput, ReferenceBasisInput, TemplateComponent } from '../../../shared/types/runs'
 
@@ -280,5 +280,23 @@ describe('Monte Carlo of a radiance-temperature point (JCGM 101)', () => {
     const mc = runMonteCarlo(model, inputs, { trials: 200_000, seed: 11, coverageProbability: r.budget.coverageProbability, correlations })
     const v = validateGumResult(plan.gum, mc.coverageInterval)
     expect(v.validated).toBe(true)
+  })
+})
+
+describe('the Monte Carlo worker’s model (planReadingModel)', () => {
+  it('a tabulated band goes through a signal table and agrees with the exact reading model within 1e-9 K, output terms added', () => {
+    const band = { kind: 'tabulated', points: [[7, 0], [8, 0.6], [10, 1], [13, 0.9], [14.5, 0]] } as const
+    const viaTable = planReadingModel({ kind: 'reading', band })
+    const exact = readingModel(band)
+    let compared = 0
+    for (const ts of [250, 300, 373.15, 600]) {
+      for (const es of [0.9, 1]) {
+        const x = [ts, es, 296.15, 298.15, 0.95]
+        const y = viaTable(Float64Array.from([...x, 0.25, -0.05]))
+        expect(Math.abs(y - (exact(x) + 0.2))).toBeLessThan(1e-9)
+        compared++
+      }
+    }
+    expect(compared).toBe(8)
   })
 })
