@@ -1,6 +1,6 @@
 import type { z } from 'zod'
-import { fieldErrors } from '~~/shared/schemas/errors'
-import type { FieldErrors } from '~~/shared/types'
+import { fieldErrors } from '#shared/schemas/errors'
+import type { FieldErrors } from '#shared/types'
 
 interface ApiErrorShape {
   data?: { message?: string, statusCode?: number, data?: { fields?: FieldErrors } }
