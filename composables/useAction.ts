@@ -2,20 +2,21 @@ import { problemText } from './forms/api'
 
 /**
  * A button's request (archive, approve, upload …): busy while it runs, and the API's refusal in
- * words when it fails (each field's message with its label).
+ * words when it fails (each field's message with its label). `run` answers whether it succeeded.
  */
 export function useAction() {
   const message = ref('')
   const busy = ref(false)
-  async function run<T>(fn: () => Promise<T>): Promise<T | undefined> {
+  async function run(fn: () => Promise<unknown>): Promise<boolean> {
     busy.value = true
     message.value = ''
     try {
-      return await fn()
+      await fn()
+      return true
     }
     catch (err) {
       message.value = problemText(err)
-      return undefined
+      return false
     }
     finally {
       busy.value = false

@@ -55,26 +55,6 @@ export function useSchemaForm<S extends z.ZodType, V extends GenericObject>(opts
     }
   }
 
-  const typedSchema: TypedSchema<V, V> = {
-    __type: 'VVTypedSchema',
-    async parse(values) {
-      const problems: Record<string, string> = {}
-      const numbers = read(values, '', problems) as V
-      const body = opts.toBody ? opts.toBody(numbers, values) : numbers
-      const result = toValue(opts.schema).safeParse(body)
-      const errors = { ...(result.success ? {} : issueMessages(result.error, specs(), temperatureUnit)), ...problems }
-      const list = Object.entries(errors).map(([path, m]) => ({ path, errors: [m] }))
-      return { value: list.length || !result.success ? undefined : (result.data as V), errors: list }
-    },
-  }
-
-  const form = useForm<V, V>({
-    validationSchema: typedSchema,
-    initialValues: opts.initialValues as never,
-    // A field hidden for a while (a band given as a table instead of λ1–λ2) keeps what was typed.
-    keepValuesOnUnmount: true,
-  })
-
   // Paths a field component shows on screen; errors elsewhere go into the form's message.
   const onScreen = new Map<string, number>()
   function show(path: string) {
@@ -93,6 +73,32 @@ export function useSchemaForm<S extends z.ZodType, V extends GenericObject>(opts
     }
     return best
   }
+
+  const typedSchema: TypedSchema<V, V> = {
+    __type: 'VVTypedSchema',
+    async parse(values) {
+      const problems: Record<string, string> = {}
+      const numbers = read(values, '', problems) as V
+      const body = opts.toBody ? opts.toBody(numbers, values) : numbers
+      const result = toValue(opts.schema).safeParse(body)
+      const errors = { ...(result.success ? {} : issueMessages(result.error, specs(), temperatureUnit)), ...problems }
+      // A problem of a part (`contactEmails[2]`) shows under the field that holds it (`contactEmails`).
+      const byField: Record<string, string> = {}
+      for (const [path, m] of Object.entries(errors)) {
+        const at = shownAt(path) ?? path
+        if (!(at in byField)) byField[at] = m
+      }
+      const list = Object.entries(byField).map(([path, m]) => ({ path, errors: [m] }))
+      return { value: list.length || !result.success ? undefined : (result.data as V), errors: list }
+    },
+  }
+
+  const form = useForm<V, V>({
+    validationSchema: typedSchema,
+    initialValues: opts.initialValues as never,
+    // A field hidden for a while (a band given as a table instead of λ1–λ2) keeps what was typed.
+    keepValuesOnUnmount: true,
+  })
 
   function summary(errors: Partial<Record<string, string>>): string {
     const offScreen = Object.entries(errors)
@@ -157,8 +163,9 @@ export function useSchemaForm<S extends z.ZodType, V extends GenericObject>(opts
     busy: form.isSubmitting,
     submit,
     fromError,
-    setFieldValue: form.setFieldValue,
-    setValues: form.setValues,
+    /** Set a value by path (`template[2].unit`). */
+    setFieldValue: (path: string, value: unknown, validate = false) => form.setFieldValue(path as never, value as never, validate),
+    setValues: (values: Partial<Record<string, unknown>>, validate = false) => form.setValues(values as never, validate),
     resetForm: form.resetForm,
     validate: form.validate,
     temperatureUnit,

@@ -13,7 +13,8 @@
  */
 import { create, unitDependencies } from 'mathjs'
 
-const math = create({ unitDependencies })
+// Only the unit machinery of mathjs (its types list every factory as possibly missing).
+const math = create({ unitDependencies: unitDependencies! })
 
 /** What a box holds. `number` is a plain number (an emissivity, a coverage factor): no unit. */
 export type QuantityKind = 'temperature' | 'temperatureDifference' | 'wavelength' | 'length' | 'percent' | 'number'
@@ -137,7 +138,8 @@ export function convertQuantity(value: number, kind: QuantityKind, from: string,
  *
  * @param text what was typed, e.g. "298.15 K" or "25"
  * @param kind what the box holds
- * @param unit the unit a bare number is read in, e.g. '°C' (ignored for `number`)
+ * @param unit the unit a bare number is read in, e.g. '°C' (ignored for `number`; for `percent` a
+ *   spelling such as '%RH' that is accepted besides '%')
  * @param to the unit of the result (default: `unit`)
  * @returns the value in `to`
  * @throws QuantityError with a message such as "°C expected, got m"
@@ -151,7 +153,7 @@ export function parseQuantity(text: string, kind: QuantityKind, unit: string, to
     return value
   }
   if (kind === 'percent') {
-    if (typed !== null && typed !== '%') throw new QuantityError('wrong-unit', `% expected, got ${typed}`)
+    if (typed !== null && typed !== '%' && typed !== unit) throw new QuantityError('wrong-unit', `% expected, got ${typed}`)
     return value
   }
   if (typed === null) return convertQuantity(value, kind, unit, to)

@@ -46,28 +46,27 @@ export function unitsOf(spec: FieldSpec, temperatureUnit: TemperatureUnit): { sh
   return { shown: spec.unit ?? base.shown, schema: spec.schemaUnit ?? spec.unit ?? base.schema }
 }
 
-/** `corrections[3][0]` → `corrections[*][0]` and the first row number (4). */
-function pattern(path: string): { key: string, row: number | null } {
-  let row: number | null = null
-  const key = path.replace(/\[(\d+)\]/g, (_, n: string) => {
-    if (row === null) row = Number(n) + 1
-    return '[*]'
-  })
-  return { key, row }
+/** The keys a path may be described under (`corrections[3][0]`, `corrections[*][0]`, `corrections[*][*]`) and its row number (4). */
+function patterns(path: string): { keys: string[], row: number | null } {
+  const first = /\[(\d+)\]/.exec(path)
+  return {
+    keys: [path, path.replace(/\[\d+\]/, '[*]'), path.replace(/\[\d+\]/g, '[*]')],
+    row: first ? Number(first[1]) + 1 : null,
+  }
 }
 
 /** "ambientTemperatureK" → "Ambient temperature"; "organizationId" → "Organization". */
 export function words(key: string): string {
   const last = key.split(/[.[\]]/).filter(s => s && !/^\d+$/.test(s) && s !== '*').pop() ?? key
-  const bare = last.replace(/(?<=[a-z])(Id|Ids|K|Um|Mm|Pct)$/, '')
+  const bare = last.replace(/(?<=[a-z0-9])(Id|Ids|K|Um|Mm|Pct)$/, '')
   const spaced = bare.replace(/([a-z0-9])([A-Z])/g, '$1 $2').toLowerCase()
   return spaced.charAt(0).toUpperCase() + spaced.slice(1)
 }
 
 /** The spec of a path: exact, else by its row pattern; a field nobody described gets words made from its key. */
 export function specFor(specs: FieldSpecs, path: string): ResolvedSpec {
-  const { key, row } = pattern(path)
-  const raw = specs[path] ?? specs[key]
+  const { keys, row } = patterns(path)
+  const raw = keys.map(k => specs[k]).find(v => v !== undefined)
   const spec: FieldSpec = raw === undefined ? { label: words(path) } : typeof raw === 'string' ? { label: raw } : raw
   return { ...spec, label: spec.label.replace('{n}', row === null ? '' : String(row)) }
 }

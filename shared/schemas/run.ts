@@ -12,21 +12,21 @@ const emissivity = (label: string) => numberField(label).gt(0, `${label} must be
 const id = (label: string) => z.number({ error: `${label} must be a number` }).int(`${label} must be a whole number`).positive(`${label} must be positive`)
 
 /** Why a record changed after submission (ISO/IEC 17025 7.5.2): required then, ignored before. */
-export const reasonSchema = z.string({ error: 'reason must be text' }).trim().max(2000, 'At most 2000 characters').optional()
+export const reasonSchema = z.string({ error: 'The reason must be text' }).trim().max(2000, 'At most 2000 characters').optional()
   .transform(v => (v ? v : undefined))
 
 const headerFields = z.object({
   receivedDate: dateOnlySchema,
   calibrationDate: dateOnlySchema,
-  ambientTemperatureK: kelvin('ambientTemperatureK').min(200, 'ambientTemperatureK below 200 K is not a laboratory').max(350, 'ambientTemperatureK above 350 K is not a laboratory'),
-  relativeHumidityPct: numberField('relativeHumidityPct').min(0, 'relativeHumidityPct is 0 to 100').max(100, 'relativeHumidityPct is 0 to 100'),
-  distanceMm: numberField('distanceMm').positive('distanceMm must be above 0 mm').max(100_000),
-  emissivitySetting: emissivity('emissivitySetting'),
-  reflectedTemperatureK: kelvin('reflectedTemperatureK'),
-  instrumentTemperatureK: kelvin('instrumentTemperatureK'),
-  adjusted: z.boolean({ error: 'adjusted must be true or false' }),
+  ambientTemperatureK: kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K (−73.15 °C) is not a laboratory').max(350, 'An ambient temperature above 350 K (76.85 °C) is not a laboratory'),
+  relativeHumidityPct: numberField('Relative humidity').min(0, 'Relative humidity is 0 to 100 %RH').max(100, 'Relative humidity is 0 to 100 %RH'),
+  distanceMm: numberField('Distance').positive('The distance must be above 0 mm').max(100_000, 'The distance is at most 100 m'),
+  emissivitySetting: emissivity('The emissivity setting'),
+  reflectedTemperatureK: kelvin('Reflected temperature'),
+  instrumentTemperatureK: kelvin('Instrument temperature'),
+  adjusted: z.boolean({ error: 'Say whether the instrument was adjusted (true or false)' }),
   notes: optionalText(4000),
-  procedureVersionId: id('procedureVersionId'),
+  procedureVersionId: id('Procedure'),
 })
 
 function dateOrder(v: { receivedDate?: string, calibrationDate?: string }, ctx: z.RefinementCtx) {
@@ -38,7 +38,7 @@ function dateOrder(v: { receivedDate?: string, calibrationDate?: string }, ctx: 
 /** POST /api/runs: the technician is the signed-in user; the emissivity setting defaults to the instrument's. */
 export const runCreateSchema = headerFields
   .extend({
-    instrumentId: id('instrumentId'),
+    instrumentId: id('Instrument'),
     emissivitySetting: headerFields.shape.emissivitySetting.optional(),
     adjusted: headerFields.shape.adjusted.default(false),
     notes: optionalText(4000).default(null),
@@ -54,19 +54,19 @@ export const runUpdateSchema = headerFields
 export type RunUpdateInput = z.infer<typeof runUpdateSchema>
 
 const readingsSchema = z
-  .array(kelvin('reading'), { error: 'readingsK is a list of readings in K' })
+  .array(kelvin('Reading'), { error: 'The readings are a list of temperatures in K' })
   .min(1, 'Give at least one reading')
   .max(MAX_READINGS, `At most ${MAX_READINGS} readings`)
 
 const pointFields = z.object({
-  stage: z.enum(POINT_STAGES, { error: 'stage is as-found or as-left' }),
-  sourceId: id('sourceId'),
-  setPointK: kelvin('setPointK'),
+  stage: z.enum(POINT_STAGES, { error: 'The stage is as found or as left' }),
+  sourceId: id('Source'),
+  setPointK: kelvin('Set-point'),
   /** The source's indicated temperature; the certificate's correction is added to it … */
-  sourceIndicatedK: kelvin('sourceIndicatedK').nullable(),
+  sourceIndicatedK: kelvin('Source indicated temperature').nullable(),
   /** … or a reference thermometer in (or viewing) the source gives the reference temperature. */
-  referenceInstrumentId: id('referenceInstrumentId').nullable(),
-  referenceReadingK: kelvin('referenceReadingK').nullable(),
+  referenceInstrumentId: id('Reference thermometer').nullable(),
+  referenceReadingK: kelvin('Reference reading').nullable(),
   readingsK: readingsSchema,
 })
 type PointShape = z.infer<typeof pointFields>
@@ -124,7 +124,7 @@ export type RunActionInput = z.infer<typeof runActionSchema>
 /** POST /api/runs/[id]/return */
 export const runReturnSchema = z.object({
   version: versionSchema,
-  comments: z.string({ error: 'comments are required' }).trim().min(1, 'Say what must be corrected').max(4000, 'At most 4000 characters'),
+  comments: z.string({ error: 'Comments are required' }).trim().min(1, 'Say what must be corrected').max(4000, 'At most 4000 characters'),
 })
 export type RunReturnInput = z.infer<typeof runReturnSchema>
 
