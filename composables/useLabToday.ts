@@ -21,7 +21,8 @@ export function useLabTodayNow() {
 /** `YYYY-MM-DD` plus whole days (calendar arithmetic, no time zone involved). */
 export function addDays(date: string, days: number): string {
   const [y, m, d] = date.split('-').map(Number) as [number, number, number]
-  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
+  const t = new Date(Date.UTC(y, m - 1, d + days))
+  return `${String(t.getUTCFullYear()).padStart(4, '0')}-${String(t.getUTCMonth() + 1).padStart(2, '0')}-${String(t.getUTCDate()).padStart(2, '0')}`
 }
 
 /** `YYYY-MM-DD` plus calendar months (the day clamped to a shorter month's end). */
