@@ -35,3 +35,27 @@ export const errorBarsPlugin: Plugin<'scatter'> = {
     })
   },
 }
+
+/** What every chart of the product starts from: it fills its box and does not animate. */
+export const CHART_BASE = { responsive: true, maintainAspectRatio: false, animation: false as const }
+
+/** A curve over wavelength given as {x, y} points; the tooltip follows the pointer along x. */
+export const CURVE_OVER_X = { ...CHART_BASE, parsing: false as const, interaction: { mode: 'nearest' as const, intersect: false, axis: 'x' as const } }
+
+/**
+ * An error-against-reference-temperature chart: axes titled in the user's unit (differences in K,
+ * or °F), the "−limit" twin of each tolerance line left out of the legend.
+ */
+export function errorChartOptions(unit: 'C' | 'K' | 'F', yTitle: string, tooltip: Record<string, unknown> = {}) {
+  return {
+    ...CHART_BASE,
+    scales: {
+      x: { type: 'linear' as const, title: { display: true, text: `Reference temperature / ${unit === 'K' ? 'K' : unit === 'F' ? '°F' : '°C'}` } },
+      y: { type: 'linear' as const, title: { display: true, text: `${yTitle} / ${unit === 'F' ? '°F' : 'K'}` } },
+    },
+    plugins: {
+      legend: { position: 'bottom' as const, labels: { filter: (item: { text: string }) => !item.text.startsWith('−') } },
+      tooltip,
+    },
+  }
+}

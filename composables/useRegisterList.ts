@@ -1,4 +1,4 @@
-import type { Page } from '~~/shared/types'
+import type { Page } from '#shared/types'
 
 /**
  * State of a server-paged register list (page, size, sort, search, filters), kept in the

@@ -1,7 +1,8 @@
-import { rolesForPath } from '~~/shared/navigation'
+import { permissionForPath } from '#shared/navigation'
+import { can } from '#shared/permissions'
 
-// Convenience only: sends anonymous visitors to /login and keeps roles off pages they
-// cannot use. The server checks the session and role in every API route regardless.
+// Convenience only: sends anonymous visitors to /login and keeps users off pages their role
+// cannot use (the same permission policy the server applies in every API route).
 const PUBLIC_PAGES = ['/login', '/verify']
 
 export default defineNuxtRouteMiddleware((to) => {
@@ -13,8 +14,8 @@ export default defineNuxtRouteMiddleware((to) => {
   if (!loggedIn.value || !user.value) {
     return navigateTo({ path: '/login', query: to.fullPath !== '/' ? { next: to.fullPath } : {} })
   }
-  const roles = rolesForPath(to.path)
-  if (roles && !roles.includes(user.value.role)) {
+  const permission = permissionForPath(to.path)
+  if (permission && !can(user.value, permission)) {
     return abortNavigation(createError({ statusCode: 403, statusMessage: 'This page is not available to your role' }))
   }
 })

@@ -1,3 +1,4 @@
+import { can, rolesWith, type Permission } from './permissions'
 import type { Role } from './roles'
 
 export const NAV_GROUPS = ['Work', 'Registers', 'Administration'] as const
@@ -7,45 +8,61 @@ export interface NavItem {
   /** Route path. */
   to: string
   label: string
-  /** Roles that may use the page; the server checks the same roles in its routes. */
-  roles: readonly Role[]
+  /** The permission a user needs to use the page (./permissions.ts); the server's routes check the same policy. */
+  permission: Permission
   /** Group heading in the side rail. */
   group: NavGroup
 }
 
 /**
- * Every page of the product and who may use it: the layout shows each role its own items.
+ * Every page of the product and who may use it: the layout shows each user its own items.
  * Listed in the order the rail shows them (by group, as in NAV_GROUPS), so navFor(role) reads as the rail does.
  */
 export const NAV_ITEMS: readonly NavItem[] = [
-  { to: '/', label: 'Overview', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
-  { to: '/runs', label: 'Calibration runs', roles: ['admin', 'technician', 'quality'], group: 'Work' },
-  { to: '/certificates', label: 'Certificates', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
-  { to: '/requests', label: 'Calibration requests', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Work' },
-  { to: '/calculator', label: 'Calculator', roles: ['admin', 'technician', 'quality'], group: 'Work' },
-  { to: '/instruments', label: 'Instruments', roles: ['admin', 'technician', 'quality', 'customer'], group: 'Registers' },
-  { to: '/customers', label: 'Customers', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
-  { to: '/sources', label: 'Blackbody sources', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
-  { to: '/reference-instruments', label: 'Reference instruments', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
-  { to: '/responsivities', label: 'Responsivity tables', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
-  { to: '/procedures', label: 'Procedures', roles: ['admin', 'technician', 'quality'], group: 'Registers' },
-  { to: '/admin/lab', label: 'Laboratory settings', roles: ['admin'], group: 'Administration' },
-  { to: '/admin/users', label: 'Users', roles: ['admin'], group: 'Administration' },
-  { to: '/admin/organizations', label: 'Customer organizations', roles: ['admin'], group: 'Administration' },
-  { to: '/admin/audit', label: 'Audit trail', roles: ['admin'], group: 'Administration' },
-  { to: '/admin/mail', label: 'Mail', roles: ['admin'], group: 'Administration' },
+  { to: '/', label: 'Overview', permission: 'account:self', group: 'Work' },
+  { to: '/runs', label: 'Calibration runs', permission: 'run:read', group: 'Work' },
+  { to: '/certificates', label: 'Certificates', permission: 'certificate:read', group: 'Work' },
+  { to: '/requests', label: 'Calibration requests', permission: 'request:read', group: 'Work' },
+  { to: '/calculator', label: 'Calculator', permission: 'calculation:run', group: 'Work' },
+  { to: '/instruments', label: 'Instruments', permission: 'instrument:read', group: 'Registers' },
+  { to: '/customers', label: 'Customers', permission: 'customer:read', group: 'Registers' },
+  { to: '/sources', label: 'Blackbody sources', permission: 'equipment:read', group: 'Registers' },
+  { to: '/reference-instruments', label: 'Reference instruments', permission: 'equipment:read', group: 'Registers' },
+  { to: '/responsivities', label: 'Responsivity tables', permission: 'responsivity:read', group: 'Registers' },
+  { to: '/procedures', label: 'Procedures', permission: 'procedure:read', group: 'Registers' },
+  { to: '/admin/lab', label: 'Laboratory settings', permission: 'settings:edit', group: 'Administration' },
+  { to: '/admin/users', label: 'Users', permission: 'user:manage', group: 'Administration' },
+  { to: '/admin/organizations', label: 'Customer organizations', permission: 'organization:manage', group: 'Administration' },
+  { to: '/admin/audit', label: 'Audit trail', permission: 'audit:read', group: 'Administration' },
+  { to: '/admin/mail', label: 'Mail', permission: 'mail:manage', group: 'Administration' },
+]
+
+/** Pages below a nav item that need more than reading it (the forms that create records). */
+export const PAGE_PERMISSIONS: readonly { to: string, permission: Permission }[] = [
+  { to: '/runs/new', permission: 'run:edit' },
+  { to: '/instruments/new', permission: 'instrument:edit' },
+  { to: '/customers/new', permission: 'customer:edit' },
+  { to: '/sources/new', permission: 'equipment:edit' },
+  { to: '/reference-instruments/new', permission: 'equipment:edit' },
+  { to: '/procedures/new', permission: 'procedure:edit' },
 ]
 
 export function navFor(role: Role): NavItem[] {
-  return NAV_ITEMS.filter(item => item.roles.includes(role))
+  return NAV_ITEMS.filter(item => can(role, item.permission))
 }
 
-/** The roles allowed on a path, by the longest matching nav prefix; undefined = any signed-in user. */
-export function rolesForPath(path: string): readonly Role[] | undefined {
-  let best: NavItem | undefined
-  for (const item of NAV_ITEMS) {
+/** The permission a path needs, by the longest matching page prefix; undefined = any signed-in user. */
+export function permissionForPath(path: string): Permission | undefined {
+  let best: { to: string, permission: Permission } | undefined
+  for (const item of [...NAV_ITEMS, ...PAGE_PERMISSIONS]) {
     if (item.to === '/') continue
     if ((path === item.to || path.startsWith(item.to + '/')) && (!best || item.to.length > best.to.length)) best = item
   }
-  return best?.roles
+  return best?.permission
+}
+
+/** The roles allowed on a path, by the longest matching page prefix; undefined = any signed-in user. */
+export function rolesForPath(path: string): readonly Role[] | undefined {
+  const permission = permissionForPath(path)
+  return permission ? rolesWith(permission) : undefined
 }

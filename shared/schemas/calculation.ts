@@ -90,11 +90,11 @@ export type TemperatureInput = z.infer<typeof temperatureSchema>
 
 export const readingInputShape = {
   band: bandSchema,
-  sourceTemperatureK: kelvin('sourceTemperatureK'),
-  sourceEmissivity: emissivity('sourceEmissivity'),
-  reflectedTemperatureK: kelvin('reflectedTemperatureK'),
-  instrumentTemperatureK: kelvin('instrumentTemperatureK'),
-  emissivitySetting: emissivity('emissivitySetting'),
+  sourceTemperatureK: kelvin('The source temperature'),
+  sourceEmissivity: emissivity('The source emissivity'),
+  reflectedTemperatureK: kelvin('The reflected temperature'),
+  instrumentTemperatureK: kelvin('The instrument temperature'),
+  emissivitySetting: emissivity('The emissivity setting'),
 }
 
 /**

@@ -11,7 +11,7 @@ export const calibrationCreateSchema = z
     dueDate: dateOnlySchema,
     results: optionalText(8000),
     /** An upload with purpose `equipment-certificate`. */
-    uploadId: z.number({ error: 'uploadId must be a number' }).int().positive().nullable().optional(),
+    uploadId: z.number({ error: 'The certificate file must be an upload' }).int().positive().nullable().optional(),
   })
   .superRefine((v, ctx) => {
     if (v.dueDate <= v.calibrationDate) ctx.addIssue({ code: 'custom', path: ['dueDate'], message: 'The due date must come after the calibration date' })

@@ -9,29 +9,29 @@ import { pageQuerySchema, text, versionSchema } from './common'
 import { optionalText } from './registerQuery'
 
 /** The password of the person signing, entered again at the moment of signing. */
-const signingPassword = z.string({ error: 'password is required' }).min(1, 'Enter your password to sign').max(200, 'At most 200 characters')
-const signatoryFunction = text(120, 'signatoryFunction')
-const reason = text(2000, 'reason')
+const signingPassword = z.string({ error: 'Enter your password to sign' }).min(1, 'Enter your password to sign').max(200, 'At most 200 characters')
+const signatoryFunction = text(120, 'The signing function')
+const reason = text(2000, 'The reason')
 
 const settingsFields = z.object({
-  name: text(200, 'name'),
-  addressLines: text(600, 'addressLines'),
-  city: text(120, 'city'),
+  name: text(200, 'The laboratory name'),
+  addressLines: text(600, 'The address'),
+  city: text(120, 'The city'),
   postcode: optionalText(20),
-  country: text(80, 'country'),
+  country: text(80, 'The country'),
   email: optionalText(254),
   phone: optionalText(40),
-  accreditationBody: text(160, 'accreditationBody'),
-  accreditationNumber: text(60, 'accreditationNumber'),
-  numberPrefix: z.string({ error: 'numberPrefix must be text' }).trim().max(12, 'At most 12 characters')
+  accreditationBody: text(160, 'The accreditation body'),
+  accreditationNumber: text(60, 'The accreditation number'),
+  numberPrefix: z.string({ error: 'The prefix must be text' }).trim().max(12, 'At most 12 characters')
     .regex(/^[A-Za-z0-9]*(?:-[A-Za-z0-9]+)*$/, 'Letters and digits, hyphens only between them'),
-  numberIncludesYear: z.boolean({ error: 'numberIncludesYear must be true or false' }),
-  numberDigits: z.number({ error: 'numberDigits must be a number' }).int('numberDigits must be a whole number').min(3, 'At least 3 digits').max(8, 'At most 8 digits'),
-  signatoryFunctions: z.array(text(120, 'Function'), { error: 'signatoryFunctions is a list of titles' }).min(1, 'Give at least one function').max(20, 'At most 20 functions')
+  numberIncludesYear: z.boolean({ error: 'Say whether numbers include the year (true or false)' }),
+  numberDigits: z.number({ error: 'The sequence digits must be a number' }).int('The sequence digits must be a whole number').min(3, 'At least 3 digits').max(8, 'At most 8 digits'),
+  signatoryFunctions: z.array(text(120, 'Function'), { error: 'The signatory functions are a list of titles' }).min(1, 'Give at least one function').max(20, 'At most 20 functions')
     .refine(list => new Set(list.map(s => s.toLowerCase())).size === list.length, 'Each function once'),
-  traceabilityStatement: text(2000, 'traceabilityStatement'),
-  decisionRuleStatement: text(2000, 'decisionRuleStatement'),
-  itemsStatement: text(600, 'itemsStatement'),
+  traceabilityStatement: text(2000, 'The traceability statement'),
+  decisionRuleStatement: text(2000, 'The decision rule statement'),
+  itemsStatement: text(600, 'The items statement'),
   reproductionStatement: optionalText(600),
   timeZone: z.string({ error: 'Time zone is required' }).trim().refine(isValidTimeZone, 'Not a time zone (use a name such as Europe/London)'),
 })
@@ -45,7 +45,7 @@ export type LabSettingsInput = z.infer<typeof labSettingsSchema>
 
 /** POST /api/certificates: sign and issue the certificate of an approved run. */
 export const certificateIssueSchema = z.object({
-  runId: z.number({ error: 'runId must be a number' }).int('runId must be a whole number').positive('runId must be positive'),
+  runId: z.number({ error: 'The run must be a number' }).int('The run must be a whole number').positive('The run must be positive'),
   password: signingPassword,
   signatoryFunction,
 })
@@ -81,7 +81,7 @@ export type CertificateQuery = z.infer<typeof certificateQuerySchema>
 
 /** GET /api/verify?number=…&code=… (no sign-in). */
 export const verifyQuerySchema = z.object({
-  number: z.string({ error: 'number is required' }).trim().min(1, 'number is required').max(60, 'At most 60 characters'),
-  code: z.string({ error: 'code is required' }).trim().min(1, 'code is required').max(40, 'At most 40 characters'),
+  number: z.string({ error: 'The certificate number is required' }).trim().min(1, 'The certificate number is required').max(60, 'At most 60 characters'),
+  code: z.string({ error: 'The verification code is required' }).trim().min(1, 'The verification code is required').max(40, 'At most 40 characters'),
 })
 export type VerifyQuery = z.infer<typeof verifyQuerySchema>

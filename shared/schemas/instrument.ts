@@ -26,7 +26,7 @@ const micrometres = (label: string) => numberField(label).positive(`${label} mus
 const ref = (label: string) => z.number({ error: `${label} must be a number` }).int().positive().nullable()
 
 const instrumentFields = z.object({
-  organizationId: z.number({ error: 'organizationId must be a number' }).int().positive(),
+  organizationId: z.number({ error: 'Choose the customer' }).int().positive('Choose the customer'),
   serial: text(80, 'Serial'),
   assetTag: optionalText(60),
   maker: text(120, 'Maker'),
@@ -36,7 +36,7 @@ const instrumentFields = z.object({
   bandLambda1Um: micrometres('Band start').nullable(),
   bandLambda2Um: micrometres('Band end').nullable(),
   /** … or a stored tabulated responsivity. */
-  spectralResponseId: ref('spectralResponseId'),
+  spectralResponseId: ref('The responsivity table'),
   /** Distance-to-spot ratio D:S (12 for 12:1). */
   distanceToSpot: numberField('Distance-to-spot ratio').positive('Must be above 0').max(10000).nullable(),
   rangeMinK: kelvin('Range minimum'),
@@ -48,7 +48,7 @@ const instrumentFields = z.object({
   status: z.enum(INSTRUMENT_STATUSES, { error: `Status is one of ${INSTRUMENT_STATUSES.join(', ')}` }),
   nextDueDate: dateOnlySchema.nullable(),
   /** An upload with purpose `instrument-photo` of the same organization. */
-  photoUploadId: ref('photoUploadId'),
+  photoUploadId: ref('The label photo'),
   notes: optionalText(4000),
 })
 type InstrumentShape = z.infer<typeof instrumentFields>
@@ -95,6 +95,6 @@ export type InstrumentUpdateInput = z.infer<typeof instrumentUpdateSchema>
 /** POST /api/responsivities: a name and the CSV text of the table (wavelength µm, relative response). */
 export const responsivityCreateSchema = z.object({
   name: text(120, 'Name'),
-  csv: z.string({ error: 'csv is required' }).min(1, 'The table is empty').max(2_000_000, 'At most 2 MB'),
+  csv: z.string({ error: 'Choose the CSV file of the table' }).min(1, 'Choose the CSV file of the table').max(2_000_000, 'At most 2 MB'),
 })
 export type ResponsivityCreateInput = z.infer<typeof responsivityCreateSchema>

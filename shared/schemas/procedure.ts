@@ -9,6 +9,7 @@ import {
   DECISION_RULES,
   EMISSIVITY_INPUTS,
   MODEL_INPUTS,
+  MODEL_INPUT_LABELS,
   TEMPLATE_DISTRIBUTIONS,
   UNITS_FOR_EMISSIVITY,
   UNITS_FOR_TEMPERATURE,
@@ -23,20 +24,20 @@ const kelvin = (label: string) => numberField(label).positive(`${label} must be 
 export const templateComponentSchema = z
   .object({
     name: text(120, 'Name'),
-    type: z.enum(COMPONENT_TYPES, { error: 'type is A or B' }),
-    distribution: z.enum(TEMPLATE_DISTRIBUTIONS, { error: `distribution is one of ${TEMPLATE_DISTRIBUTIONS.join(', ')}` }),
-    value: numberField('value').min(0, 'value cannot be negative').max(1e4, 'value is out of range'),
-    coverageFactor: numberField('coverageFactor').positive('coverageFactor must be above 0').max(100).nullable().optional().default(null),
-    unit: z.enum(COMPONENT_UNITS, { error: `unit is one of ${COMPONENT_UNITS.join(', ')}` }),
-    input: z.enum(MODEL_INPUTS, { error: `input is one of ${MODEL_INPUTS.join(', ')}` }),
-    dof: numberField('dof').positive('dof must be above 0 (null = infinite)').max(1e9).nullable().optional().default(null),
+    type: z.enum(COMPONENT_TYPES, { error: 'The type is A or B' }),
+    distribution: z.enum(TEMPLATE_DISTRIBUTIONS, { error: `The distribution is one of ${TEMPLATE_DISTRIBUTIONS.join(', ')}` }),
+    value: numberField('Value').min(0, 'The value cannot be negative').max(1e4, 'The value is out of range'),
+    coverageFactor: numberField('The coverage factor k').positive('The coverage factor k must be above 0').max(100, 'The coverage factor k is at most 100').nullable().optional().default(null),
+    unit: z.enum(COMPONENT_UNITS, { error: `The unit is one of ${COMPONENT_UNITS.join(', ')}` }),
+    input: z.enum(MODEL_INPUTS, { error: `The model input is one of ${MODEL_INPUTS.join(', ')}` }),
+    dof: numberField('Degrees of freedom').positive('Degrees of freedom must be above 0 (leave them out for infinite)').max(1e9).nullable().optional().default(null),
   })
   .superRefine((c, ctx) => {
     if (c.distribution === 'normal' && c.coverageFactor === null) {
       ctx.addIssue({ code: 'custom', path: ['coverageFactor'], message: 'A normal component is given by its expanded uncertainty: state its coverage factor k' })
     }
     const allowed = EMISSIVITY_INPUTS.includes(c.input) ? UNITS_FOR_EMISSIVITY : UNITS_FOR_TEMPERATURE
-    if (!allowed.includes(c.unit)) ctx.addIssue({ code: 'custom', path: ['unit'], message: `An input ${c.input} takes ${allowed.join(' or ')}` })
+    if (!allowed.includes(c.unit)) ctx.addIssue({ code: 'custom', path: ['unit'], message: `${MODEL_INPUT_LABELS[c.input]} takes ${allowed.join(' or ')}` })
   })
 export type TemplateComponentInput = z.infer<typeof templateComponentSchema>
 
@@ -74,11 +75,11 @@ export function correlationProblems(correlations: readonly { between: readonly [
 
 export const cmcEntrySchema = z
   .object({
-    minK: kelvin('minK'),
-    maxK: kelvin('maxK'),
-    expandedUncertaintyK: numberField('expandedUncertaintyK').positive('expandedUncertaintyK must be above 0 K').max(1000),
+    minK: kelvin('The range start'),
+    maxK: kelvin('The range end'),
+    expandedUncertaintyK: numberField('The expanded uncertainty').positive('The expanded uncertainty must be above 0 K').max(1000, 'The expanded uncertainty is at most 1000 K'),
   })
-  .refine(r => r.maxK > r.minK, { path: ['maxK'], message: 'maxK must be above minK' })
+  .refine(r => r.maxK > r.minK, { path: ['maxK'], message: 'The range must end above its start' })
 
 /**
  * What a procedure applies to: the kinds of source it uses, the spectral band an instrument must lie
@@ -101,21 +102,21 @@ export type ApplicabilityInput = z.infer<typeof applicabilitySchema>
 const procedureFields = z.object({
   name: text(160, 'Name'),
   documentReference: text(120, 'Document reference'),
-  decisionRule: z.enum(DECISION_RULES, { error: `decisionRule is one of ${DECISION_RULES.join(', ')}` }),
+  decisionRule: z.enum(DECISION_RULES, { error: `The decision rule is one of ${DECISION_RULES.join(', ')}` }),
   /** r in w = r·U; used by the guard-band and non-binary rules (default 1). */
-  guardBandFactor: numberField('guardBandFactor').min(0, 'guardBandFactor cannot be negative').max(10, 'guardBandFactor is at most 10').nullable().optional().default(null),
-  template: z.array(templateComponentSchema, { error: 'template is a list of components' }).max(60, 'At most 60 components'),
+  guardBandFactor: numberField('The guard-band factor').min(0, 'The guard-band factor cannot be negative').max(10, 'The guard-band factor is at most 10').nullable().optional().default(null),
+  template: z.array(templateComponentSchema, { error: 'The template is a list of components' }).max(60, 'At most 60 components'),
   /** Correlated pairs of template lines (indices into `template`); default none. */
-  correlations: z.array(templateCorrelationSchema, { error: 'correlations is a list of { between: [i, j], coefficient }' }).max(200, 'At most 200 correlations').default([]),
+  correlations: z.array(templateCorrelationSchema, { error: 'The correlations are a list of pairs of lines with their coefficient' }).max(200, 'At most 200 correlations').default([]),
   /**
    * Whether each point's budget also takes the reference equipment's lines from the registers (source
    * certificate U and k, emissivity for the band, uniformity, stability; reference thermometer): then the
    * template holds the instrument-side lines only. Default false (the template is the whole budget).
    */
-  budgetFromEquipment: z.boolean({ error: 'budgetFromEquipment is true or false' }).default(false),
+  budgetFromEquipment: z.boolean({ error: 'Say whether the budget takes the equipment\'s uncertainties from the registers' }).default(false),
   /** m in "aperture ≥ m × spot diameter" (e.g. 2); null: none stated, the spot must only fit. */
   spotMargin: numberField('Spot margin').min(1, 'The margin is at least 1 (the spot must fit inside the aperture)').max(20, 'The margin is at most 20').nullable().optional().default(null),
-  cmc: z.array(cmcEntrySchema, { error: 'cmc is a list of { minK, maxK, expandedUncertaintyK }' }).max(100, 'At most 100 ranges'),
+  cmc: z.array(cmcEntrySchema, { error: 'The CMC is a list of ranges (start, end, expanded uncertainty)' }).max(100, 'At most 100 ranges'),
   applicability: applicabilitySchema,
   /** What changed in this version (for the record). */
   changeNote: optionalText(2000).default(null),
@@ -133,10 +134,10 @@ export const procedureUpdateSchema = z.object({
   name: procedureFields.shape.name.optional(),
   documentReference: procedureFields.shape.documentReference.optional(),
   decisionRule: procedureFields.shape.decisionRule.optional(),
-  guardBandFactor: numberField('guardBandFactor').min(0).max(10, 'guardBandFactor is at most 10').nullable().optional(),
+  guardBandFactor: numberField('The guard-band factor').min(0, 'The guard-band factor cannot be negative').max(10, 'The guard-band factor is at most 10').nullable().optional(),
   template: procedureFields.shape.template.optional(),
-  correlations: z.array(templateCorrelationSchema, { error: 'correlations is a list of { between: [i, j], coefficient }' }).max(200, 'At most 200 correlations').optional(),
-  budgetFromEquipment: z.boolean({ error: 'budgetFromEquipment is true or false' }).optional(),
+  correlations: z.array(templateCorrelationSchema, { error: 'The correlations are a list of pairs of lines with their coefficient' }).max(200, 'At most 200 correlations').optional(),
+  budgetFromEquipment: z.boolean({ error: 'Say whether the budget takes the equipment\'s uncertainties from the registers' }).optional(),
   spotMargin: numberField('Spot margin').min(1, 'The margin is at least 1 (the spot must fit inside the aperture)').max(20, 'The margin is at most 20').nullable().optional(),
   cmc: procedureFields.shape.cmc.optional(),
   applicability: applicabilitySchema.optional(),

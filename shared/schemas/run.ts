@@ -12,7 +12,7 @@ const emissivity = (label: string) => numberField(label).gt(0, `${label} must be
 const id = (label: string) => z.number({ error: `${label} must be a number` }).int(`${label} must be a whole number`).positive(`${label} must be positive`)
 
 /** Why a record changed after submission (ISO/IEC 17025 7.5.2): required then, ignored before. */
-export const reasonSchema = z.string({ error: 'reason must be text' }).trim().max(2000, 'At most 2000 characters').optional()
+export const reasonSchema = z.string({ error: 'The reason must be text' }).trim().max(2000, 'At most 2000 characters').optional()
   .transform(v => (v ? v : undefined))
 
 /** A measured condition: a number when entered, null when not (yet); never a default. */
@@ -20,17 +20,17 @@ const measured = <T extends z.ZodNumber>(n: T) => n.nullable()
 
 const headerFields = z.object({
   calibrationDate: dateOnlySchema,
-  ambientTemperatureK: measured(kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K is not a laboratory').max(350, 'An ambient temperature above 350 K is not a laboratory')),
-  relativeHumidityPct: measured(numberField('Relative humidity').min(0, 'Relative humidity is 0 to 100 %').max(100, 'Relative humidity is 0 to 100 %')),
-  distanceMm: measured(numberField('Measuring distance').positive('The measuring distance is above 0 mm').max(100_000)),
+  ambientTemperatureK: measured(kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K (−73.15 °C) is not a laboratory').max(350, 'An ambient temperature above 350 K (76.85 °C) is not a laboratory')),
+  relativeHumidityPct: measured(numberField('Relative humidity').min(0, 'Relative humidity is 0 to 100 %RH').max(100, 'Relative humidity is 0 to 100 %RH')),
+  distanceMm: measured(numberField('Distance').positive('The distance must be above 0 mm').max(100_000, 'The distance is at most 100 m')),
   /** The spot diameter at the measuring distance, mm, when the maker states one (fixed-focus instruments); null: from the instrument's D:S. */
   spotDiameterMm: numberField('Spot diameter').positive('The spot diameter is above 0 mm').max(10_000, 'The spot diameter is at most 10000 mm').nullable(),
-  emissivitySetting: measured(emissivity('Emissivity setting')),
+  emissivitySetting: measured(emissivity('The emissivity setting')),
   reflectedTemperatureK: measured(kelvin('Reflected temperature')),
-  instrumentTemperatureK: measured(kelvin("Instrument's own temperature")),
+  instrumentTemperatureK: measured(kelvin('Instrument temperature')),
   /** The reference instrument (thermometer, hygrometer) that measured the ambient conditions. */
   ambientInstrumentId: id('Ambient conditions instrument').nullable(),
-  adjusted: z.boolean({ error: 'adjusted must be true or false' }),
+  adjusted: z.boolean({ error: 'Say whether the instrument was adjusted (true or false)' }),
   /** The laboratory's own notes: never printed, never shown to the customer. */
   internalNotes: optionalText(4000),
   /** Printed on the certificate as its remarks. */
@@ -100,19 +100,19 @@ export const receiptSchema = z.object({
 export type ReceiptInput = z.infer<typeof receiptSchema>
 
 const readingsSchema = z
-  .array(kelvin('reading'), { error: 'readingsK is a list of readings in K' })
+  .array(kelvin('Reading'), { error: 'The readings are a list of temperatures in K' })
   .min(1, 'Give at least one reading')
   .max(MAX_READINGS, `At most ${MAX_READINGS} readings`)
 
 const pointFields = z.object({
-  stage: z.enum(POINT_STAGES, { error: 'stage is as-found or as-left' }),
-  sourceId: id('sourceId'),
-  setPointK: kelvin('setPointK'),
+  stage: z.enum(POINT_STAGES, { error: 'The stage is as found or as left' }),
+  sourceId: id('Source'),
+  setPointK: kelvin('Set-point'),
   /** The source's indicated temperature; the certificate's correction is added to it … */
-  sourceIndicatedK: kelvin('sourceIndicatedK').nullable(),
+  sourceIndicatedK: kelvin('Source indicated temperature').nullable(),
   /** … or a reference thermometer in (or viewing) the source gives the reference temperature. */
-  referenceInstrumentId: id('referenceInstrumentId').nullable(),
-  referenceReadingK: kelvin('referenceReadingK').nullable(),
+  referenceInstrumentId: id('Reference thermometer').nullable(),
+  referenceReadingK: kelvin('Reference reading').nullable(),
   readingsK: readingsSchema,
 })
 type PointShape = z.infer<typeof pointFields>
@@ -170,7 +170,7 @@ export type RunActionInput = z.infer<typeof runActionSchema>
 /** POST /api/runs/[id]/return */
 export const runReturnSchema = z.object({
   version: versionSchema,
-  comments: z.string({ error: 'comments are required' }).trim().min(1, 'Say what must be corrected').max(4000, 'At most 4000 characters'),
+  comments: z.string({ error: 'Comments are required' }).trim().min(1, 'Say what must be corrected').max(4000, 'At most 4000 characters'),
 })
 export type RunReturnInput = z.infer<typeof runReturnSchema>
 

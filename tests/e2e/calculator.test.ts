@@ -61,12 +61,38 @@ describe('reading calculator', () => {
     await expect.poll(reading).toMatch(/^9\d\.\d\d/)
   })
 
-  it('runs a Monte Carlo check with progress and compares it with GUM', async () => {
+  it('runs a Monte Carlo check with progress, and its verdict follows from the inputs', async () => {
     const { page } = browser
-    await page.locator('#mc-trials').selectOption('100000')
-    await page.getByTestId('mc-run').click()
-    await page.waitForSelector('[data-testid="mc-result"]', { timeout: 30_000 })
-    expect(await page.getByTestId('mc-verdict').textContent()).toMatch(/GUM interval is (not )?validated/)
+    // The probe's point: 8–14 µm, a source at 100 °C with ε_s = 0.95, surroundings at 23 °C, ε_i = 1.
+    await page.locator('[data-band-mode="preset"]').click()
+    await expect.poll(reading).toMatch(/^9\d\.\d\d/)
+    const run = async (u: { ts: string, es: string, tw: string, td: string }) => {
+      await page.locator('#mc-uts').fill(u.ts)
+      await page.locator('#mc-ues').fill(u.es)
+      await page.locator('#mc-utw').fill(u.tw)
+      await page.locator('#mc-utd').fill(u.td)
+      await page.locator('#mc-trials').selectOption('100000')
+      const runs = page.locator('[data-testid="mc-result"]')
+      const before = Number(await runs.getAttribute('data-run', { timeout: 500 }).catch(() => '0'))
+      await page.getByTestId('mc-run').click()
+      await expect.poll(() => runs.getAttribute('data-run', { timeout: 500 }).catch(() => null), { timeout: 30_000 }).toBe(String(before + 1))
+      return page.getByTestId('mc-verdict')
+    }
+    // Nearly linear, dominated by a normal input (u(T_s) = 0.15 K, the rest negligible): the
+    // output is normal and the GUM interval agrees with Monte Carlo (JCGM 101:2008 §8, §9.2 —
+    // section numbers from memory). With u(y) ≈ 0.14 K, δ = 0.005 K; the interval ends of 10⁵
+    // trials scatter by about 0.001 K, so the agreement is not luck.
+    const linear = await run({ ts: '0.15', es: '0.0001', tw: '0.01', td: '0.01' })
+    expect(await linear.getAttribute('data-validated')).toBe('true')
+    expect(await linear.textContent()).toMatch(/GUM interval is validated/)
     await shot(page, 'calculator-monte-carlo')
+    // Dominated by a rectangular input (reflected temperature ± 30 K): the output is near
+    // rectangular, its 95 % interval about ±0.95a, while the GUM's k ≈ 2 normal interval is about
+    // ±1.13a — the ends differ by far more than δ, so the GUM interval must not be validated
+    // (JCGM 101:2008 §9.2, additive model with rectangular inputs; from memory).
+    const rectangular = await run({ ts: '0.01', es: '0.0001', tw: '30', td: '0.01' })
+    expect(await rectangular.getAttribute('data-validated')).toBe('false')
+    expect(await rectangular.textContent()).toMatch(/GUM interval is not validated/)
+    await shot(page, 'calculator-monte-carlo-rectangular')
   })
 })

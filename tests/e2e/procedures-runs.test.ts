@@ -57,7 +57,7 @@ describe('procedures: quality writes them, each edit is a new version', () => {
 
     await page.getByTestId('save-procedure').click()
     await expect.poll(() => page.locator('[data-field-error="name"]').textContent()).toMatch(/required/i)
-    expect(await page.locator('[data-field-error="cmc[0].maxK"]').textContent()).toMatch(/above minK/)
+    expect(await page.locator('[data-field-error="cmc[0].maxK"]').textContent()).toMatch(/end above its start/)
     expect(await page.locator('[data-field-error="template[2].value"]').textContent()).toMatch(/number/)
     expect(await page.locator('[data-template-value="2"]').getAttribute('aria-invalid')).toBe('true')
     await shot(page, 'procedure-new-errors')

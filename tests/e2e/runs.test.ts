@@ -106,7 +106,7 @@ describe('a calibration run, end to end', () => {
     await page.getByTestId('issue-certificate').click()
     await page.locator('#sign-password').fill('not-my-password')
     await page.getByTestId('sign-submit').click()
-    await expect.poll(() => page.locator('[data-field-error="password"]').count()).toBe(1)
+    await expect.poll(() => page.locator('[data-field-error="sign-password"]').count()).toBe(1)
     await page.locator('#sign-password').fill('bandlight-demo')
     await page.getByTestId('sign-submit').click()
     await page.waitForSelector('[data-testid="certificate-number"]')

@@ -11,12 +11,16 @@ import { BASE_URL, DEMO_PASSWORD } from './http'
 export const SCREENSHOTS = path.resolve(import.meta.dirname, '../.artifacts/screenshots')
 const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium'
 
-export async function openBrowser(): Promise<{ context: BrowserContext, page: Page, close: () => Promise<void> }> {
+/** A phone (390 × 844 CSS px) and a wide desktop, for the layout checks. */
+export const PHONE = { width: 390, height: 844 } as const
+export const DESKTOP = { width: 1440, height: 900 } as const
+
+export async function openBrowser(viewport: { width: number, height: number } = { width: 1360, height: 860 }): Promise<{ context: BrowserContext, page: Page, close: () => Promise<void> }> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-chromium-'))
   const context = await chromium.launchPersistentContext(dir, {
     executablePath: CHROMIUM,
     headless: true,
-    viewport: { width: 1360, height: 860 },
+    viewport,
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   })
   // Every page of every browser test is also a check of the Content-Security-Policy: anything the
@@ -49,5 +53,33 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
   await page.locator('#email').fill(email)
   await page.locator('#password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
+  // Below 900 px the navigation waits behind the menu button: present, not shown.
+  await page.waitForSelector('[data-testid="nav"]', { state: 'attached' })
+}
+
+/** Below 900 px: open the navigation with the menu button (a no-op where the rail shows). */
+export async function openMenu(page: Page): Promise<void> {
+  const button = page.getByTestId('menu-button')
+  if (await button.isVisible() && (await button.getAttribute('aria-expanded')) !== 'true') await button.click()
   await page.waitForSelector('[data-testid="nav"]')
+}
+
+/** The page's own horizontal overflow: how much wider its content is than the window (0 = none). */
+export async function pageOverflow(page: Page): Promise<number> {
+  return page.evaluate(() => {
+    const el = document.scrollingElement ?? document.documentElement
+    return el.scrollWidth - el.clientWidth
+  })
+}
+
+/** Screenshots of a page at the wide desktop and the phone width, named `<name>-1440` and `<name>-390`. */
+export async function shotBoth(page: Page, name: string): Promise<void> {
+  const before = page.viewportSize()
+  await page.setViewportSize(DESKTOP)
+  await page.waitForTimeout(150)
+  await shot(page, `${name}-1440`)
+  await page.setViewportSize(PHONE)
+  await page.waitForTimeout(150)
+  await shot(page, `${name}-390`)
+  if (before) await page.setViewportSize(before)
 }

@@ -3,7 +3,7 @@
  * invented names, so a test does not depend on what the demo scenario happens to hold.
  */
 import { expect } from 'vitest'
-import { type Client, unique } from './http'
+import { type Client, DEMO_PASSWORD, unique } from './http'
 
 export interface Made { id: number, version: number, [key: string]: unknown }
 
@@ -164,4 +164,36 @@ export async function organizationOf(customer: Client): Promise<number> {
   expect(me.status).toBe(200)
   expect(me.body.organizationId, 'a customer user has an organization').toEqual(expect.any(Number))
   return me.body.organizationId as number
+}
+
+/** The id of the source or reference instrument with this asset tag. */
+export async function equipmentId(c: Client, assetTag: string): Promise<number> {
+  const id = (await equipmentIds(c))[assetTag]
+  expect(id, `no equipment ${assetTag}`).toBeTruthy()
+  return id!
+}
+
+/**
+ * An approved run of an instrument (technician and quality clients): three points on the demo's
+ * flat plate BB-FP-01, submitted by the technician and approved by the quality manager.
+ */
+export async function makeApprovedRun(tech: Client, quality: Client, instrumentId: number, procedureVersionId: number): Promise<Made> {
+  const run = await makeRun(tech, instrumentId, procedureVersionId)
+  const plate = await equipmentId(tech, 'BB-FP-01')
+  for (const setPointK of [273.15, 323.15, 373.15]) {
+    const p = await tech.post(`/api/runs/${run.id}/points`, { sourceId: plate, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK - 0.2, setPointK - 0.1, setPointK - 0.3] })
+    expect(p.status, JSON.stringify(p.body)).toBe(201)
+  }
+  const submitted = await tech.post(`/api/runs/${run.id}/submit`, { version: run.version })
+  expect(submitted.status, JSON.stringify(submitted.body)).toBe(200)
+  const approved = await quality.post(`/api/runs/${run.id}/approve`, { version: submitted.body.version })
+  expect(approved.status, JSON.stringify(approved.body)).toBe(200)
+  return approved.body as Made
+}
+
+/** The certificate of an approved run, signed by the demo quality manager. */
+export async function issueCertificate(quality: Client, runId: number): Promise<Made & { number: string }> {
+  const r = await quality.post('/api/certificates', { runId, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
+  expect(r.status, JSON.stringify(r.body)).toBe(201)
+  return r.body as Made & { number: string }
 }

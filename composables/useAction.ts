@@ -1,0 +1,26 @@
+import { problemText } from './forms/api'
+
+/**
+ * A button's request (archive, approve, upload …): busy while it runs, and the API's refusal in
+ * words when it fails (each field's message with its label). `run` answers whether it succeeded.
+ */
+export function useAction() {
+  const message = ref('')
+  const busy = ref(false)
+  async function run(fn: () => Promise<unknown>): Promise<boolean> {
+    busy.value = true
+    message.value = ''
+    try {
+      await fn()
+      return true
+    }
+    catch (err) {
+      message.value = problemText(err)
+      return false
+    }
+    finally {
+      busy.value = false
+    }
+  }
+  return { message, busy, run, clear: () => (message.value = '') }
+}
