@@ -65,7 +65,7 @@ export const DCC_CONFORMITY: Record<Verdict, 'pass' | 'fail' | 'conditionalPass'
 
 let regionCodes: Map<string, string> | undefined
 
-/** Region names (CLDR, English) → ISO 3166-1 alpha-2 code; the first (canonical) code wins over aliases such as UK. */
+/** Region names (CLDR, English) → ISO 3166-1 alpha-2 code, canonical codes only (not aliases such as UK or DD). */
 function regions(): Map<string, string> {
   if (regionCodes) return regionCodes
   const map = new Map<string, string>()
@@ -73,7 +73,8 @@ function regions(): Map<string, string> {
   for (let a = 65; a <= 90; a++) {
     for (let b = 65; b <= 90; b++) {
       const code = String.fromCharCode(a, b)
-      if (code === 'ZZ') continue
+      // Skip "unknown" and the aliases of deprecated or reserved codes (DD → DE, UK → GB, SU → RU …).
+      if (code === 'ZZ' || Intl.getCanonicalLocales(`und-${code}`)[0] !== `und-${code}`) continue
       let name: string | undefined
       try {
         name = names.of(code)
@@ -103,9 +104,11 @@ export function countryCode(country: string | null | undefined): string | null {
   const s = (country ?? '').trim().replace(/\s+/g, ' ').toLowerCase()
   if (!s) return null
   const map = regions()
+  const named = map.get(s)
+  if (named) return named
   if (/^[a-z]{2}$/.test(s)) {
     const code = s.toUpperCase()
     return [...map.values()].includes(code) ? code : null
   }
-  return map.get(s) ?? null
+  return null
 }
