@@ -56,6 +56,9 @@ export async function runRunsBench(opts: { quick?: boolean } = {}): Promise<Runs
       assetTag: 'BENCH-FP', kind: 'flat-plate', maker: 'Bench', model: 'Plate', serial: 'P1', apertureMm: 150,
       minTemperatureK: 253.15, maxTemperatureK: 423.15, emissivity: 0.95, emissivityU: 0.005, emissivityBandLambda1Um: 8, emissivityBandLambda2Um: 14,
       uniformityK: 0.2, stabilityK: 0.05, corrections: [[253.15, 0.35], [273.15, 0.22], [323.15, 0.1], [373.15, -0.05], [423.15, -0.18]], status: 'in-service', notes: null,
+      // certified like the demo plate: radiance temperatures in 8–14 µm, surroundings 23.0 °C, U = 0.30 K (k = 2)
+      emissivityTable: null, certifiedBasis: 'radiance-temperature', certifiedBandLambda1Um: 8, certifiedBandLambda2Um: 14, certifiedBandMedium: 'vacuum',
+      certifiedReflectedTemperatureK: 296.15, certifiedExpandedUncertaintyK: 0.3, certifiedCoverageFactor: 2,
     })
     await EquipmentCalibration.create({ equipmentType: 'source', equipmentId: plate.id, provider: 'Bench', certificateNumber: 'B-1', calibrationDate: '2026-01-01', dueDate: '2027-01-01', results: null, uploadId: null, createdBy: null })
     const procedure = await inTransaction(t => createProcedureIn(t, user.id, DEMO_PROCEDURES[0]!))
@@ -63,7 +66,7 @@ export async function runRunsBench(opts: { quick?: boolean } = {}): Promise<Runs
     const setPoints = Array.from({ length: 12 }, (_, i) => 253.15 + i * 15)
     const header = {
       instrumentId: instrument.id, procedureVersionId: procedure.currentVersionId!, calibrationDate: '2026-05-04',
-      ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, emissivitySetting: 0.95, reflectedTemperatureK: 296.15,
+      ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, spotDiameterMm: null, emissivitySetting: 0.95, reflectedTemperatureK: 296.15,
       instrumentTemperatureK: 296.65, ambientInstrumentId: null, adjusted: false, internalNotes: null, certificateRemarks: null,
       methodDeviations: null, placeOfCalibration: 'laboratory' as const, siteAddress: null,
     }

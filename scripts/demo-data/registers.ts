@@ -5,6 +5,15 @@
  * Makers, models, serials, providers and certificate numbers are all invented.
  * Idempotent by natural keys (asset tag, certificate number, content hash, maker + model + serial).
  * The demo's "today" is 2026-12-01: the high-temperature cavity is past its due date.
+ *
+ * The sources' certified data say what their certificates state. The flat plate's certificate states
+ * radiance temperatures in 8–14 µm (emissivity setting 1) with the surroundings at 23.0 °C and
+ * U = 0.30 K (k = 2): its basis is 'radiance-temperature', so the engine finds the plate's surface
+ * temperature from each radiance temperature before the reading model (its emissivity is not applied
+ * twice). The cavities' certificates state cavity temperatures; a cavity certificate that states U over
+ * a range of set-points is recorded with its largest U. The 8–14 µm cavity's register also holds the
+ * maker's spectral emissivity down to 1.5 µm, so the 2.2 µm demo pyrometer can use it; the plate's
+ * table covers 7–15 µm, the span of the tabulated 8–14 µm responsivity.
  */
 import crypto from 'node:crypto'
 import type { Transaction } from 'sequelize'
@@ -29,25 +38,36 @@ const SOURCES = [
     assetTag: 'BB-FP-01', kind: 'flat-plate', maker: 'Norrvik Instruments', model: 'FP-150 Plate', serial: 'NV-FP150-0412',
     apertureMm: 150, minTemperatureK: C(-20), maxTemperatureK: C(150), emissivity: 0.95, emissivityU: 0.005,
     emissivityBandLambda1Um: 8, emissivityBandLambda2Um: 14, uniformityK: 0.2, stabilityK: 0.05,
+    // invented: the coating's emissivity measured from 7 to 15 µm, lower and less certain at the ends
+    emissivityTable: [[7, 0.94, 0.01], [8, 0.95, 0.005], [14, 0.95, 0.005], [15, 0.94, 0.01]],
     corrections: [[C(-20), 0.35], [C(0), 0.22], [C(50), 0.1], [C(100), -0.05], [C(150), -0.18]],
+    certifiedBasis: 'radiance-temperature', certifiedBandLambda1Um: 8, certifiedBandLambda2Um: 14, certifiedBandMedium: 'vacuum',
+    certifiedReflectedTemperatureK: C(23), certifiedExpandedUncertaintyK: 0.3, certifiedCoverageFactor: 2,
     notes: 'Low-temperature plate for 8–14 µm instruments.',
-    calibration: { certificateNumber: 'HTS-26-0311', calibrationDate: '2026-03-10', dueDate: '2027-03-10', results: 'Radiance temperature at five set-points; corrections as tabulated, U = 0.30 K (k = 2).' },
+    calibration: { certificateNumber: 'HTS-26-0311', calibrationDate: '2026-03-10', dueDate: '2027-03-10', results: 'Radiance temperature (8–14 µm, emissivity setting 1, surroundings at 23.0 °C) at five set-points; corrections as tabulated, U = 0.30 K (k = 2).' },
   },
   {
     assetTag: 'BB-CV-02', kind: 'cavity', maker: 'Calderon Optics', model: 'CV-500', serial: 'CO-CV5-1187',
     apertureMm: 50, minTemperatureK: C(50), maxTemperatureK: C(500), emissivity: 0.995, emissivityU: 0.001,
     emissivityBandLambda1Um: 8, emissivityBandLambda2Um: 14, uniformityK: 0.1, stabilityK: 0.03,
+    // invented: the maker's spectral emissivity of the cavity, 1.5–14 µm
+    emissivityTable: [[1.5, 0.998, 0.001], [5, 0.997, 0.001], [8, 0.995, 0.001], [14, 0.995, 0.001]],
     corrections: [[C(50), 0.05], [C(150), 0.08], [C(300), 0.15], [C(500), 0.3]],
+    certifiedBasis: 'cavity-temperature', certifiedBandLambda1Um: null, certifiedBandLambda2Um: null, certifiedBandMedium: null,
+    certifiedReflectedTemperatureK: null, certifiedExpandedUncertaintyK: 0.6, certifiedCoverageFactor: 2,
     notes: null,
-    calibration: { certificateNumber: 'HTS-26-0520', calibrationDate: '2026-05-20', dueDate: '2027-05-20', results: 'Four set-points, U = 0.25 K to 0.60 K (k = 2).' },
+    calibration: { certificateNumber: 'HTS-26-0520', calibrationDate: '2026-05-20', dueDate: '2027-05-20', results: 'Cavity temperature at four set-points, U = 0.25 K to 0.60 K (k = 2); the register holds the largest.' },
   },
   {
     assetTag: 'BB-CV-03', kind: 'cavity', maker: 'Calderon Optics', model: 'CV-1500H', serial: 'CO-CVH-0093',
     apertureMm: 25, minTemperatureK: C(400), maxTemperatureK: C(1500), emissivity: 0.999, emissivityU: 0.0005,
     emissivityBandLambda1Um: 0.6, emissivityBandLambda2Um: 5, uniformityK: 0.5, stabilityK: 0.1,
+    emissivityTable: null,
     corrections: [[C(400), 0.2], [C(800), 0.5], [C(1200), 0.9], [C(1500), 1.4]],
+    certifiedBasis: 'cavity-temperature', certifiedBandLambda1Um: null, certifiedBandLambda2Um: null, certifiedBandMedium: null,
+    certifiedReflectedTemperatureK: null, certifiedExpandedUncertaintyK: 2.1, certifiedCoverageFactor: 2,
     notes: 'Recalibration overdue: do not use until the new certificate is recorded.',
-    calibration: { certificateNumber: 'HTS-25-1015', calibrationDate: '2025-10-15', dueDate: '2026-10-15', results: 'Four set-points, U = 0.8 K to 2.1 K (k = 2).' },
+    calibration: { certificateNumber: 'HTS-25-1015', calibrationDate: '2025-10-15', dueDate: '2026-10-15', results: 'Cavity temperature at four set-points, U = 0.8 K to 2.1 K (k = 2); the register holds the largest.' },
   },
 ] as const
 
@@ -145,7 +165,12 @@ export async function seedRegisters(t: Transaction): Promise<number> {
   for (const { calibration, ...spec } of SOURCES) {
     let row = await BlackbodySource.findOne({ where: { assetTag: spec.assetTag }, transaction: t })
     if (!row) {
-      row = await BlackbodySource.create({ ...spec, corrections: spec.corrections.map(([a, b]) => [a, b] as [number, number]), status: 'in-service' }, { transaction: t })
+      row = await BlackbodySource.create({
+        ...spec,
+        corrections: spec.corrections.map(([a, b]) => [a, b] as [number, number]),
+        emissivityTable: spec.emissivityTable ? spec.emissivityTable.map(([l, e, u]) => [l, e, u] as [number, number, number]) : null,
+        status: 'in-service',
+      }, { transaction: t })
       await recordAudit(t, { userId: null, action: 'seed', entity: 'BlackbodySource', entityId: row.id, after: snapshot(row) })
       created++
     }

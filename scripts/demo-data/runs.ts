@@ -25,6 +25,7 @@ import { CalibrationRequest } from '#server/models/CalibrationRequest'
 import { createProcedureIn } from '#server/services/procedures/procedures'
 import { acceptRequestIn, agreeRequestIn, recordAgreementIn, reviewRequestIn } from '#server/services/requests/requests'
 import { addPointIn, approveRunIn, computationInput, loadRunContext, recordReceiptIn, returnRunIn, submitRunIn, updateRunIn, type Actor } from '#server/services/runs/runs'
+import { Equipment } from '#server/services/runs/context'
 import { recordAudit, snapshot } from '#server/utils/audit'
 
 const C = (celsius: number) => Math.round((celsius + 273.15) * 100) / 100
@@ -37,10 +38,12 @@ export const DEMO_PROCEDURES: ProcedureCreateInput[] = [
     guardBandFactor: null,
     changeNote: 'First issue in Bandlight.',
     applicability: { sourceKinds: ['flat-plate'], bandMinUm: 7, bandMaxUm: 15, minK: C(-20), maxK: C(150) },
+    // The plate's lines (certified U, emissivity, uniformity, stability) come from its register entry;
+    // the template holds the instrument-side lines.
+    budgetFromEquipment: true,
+    spotMargin: 2,
+    correlations: [],
     template: [
-      { name: 'Reference thermometer in the plate (certificate)', type: 'B', distribution: 'normal', value: 0.05, coverageFactor: 2, unit: 'K', input: 'sourceTemperature', dof: null },
-      { name: 'Plate emissivity', type: 'B', distribution: 'rectangular', value: 0.01, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity', dof: null },
-      { name: 'Plate non-uniformity', type: 'B', distribution: 'rectangular', value: 0.2, coverageFactor: null, unit: 'K', input: 'sourceTemperature', dof: null },
       { name: 'Reflected temperature', type: 'B', distribution: 'rectangular', value: 1, coverageFactor: null, unit: 'K', input: 'reflectedTemperature', dof: null },
       { name: 'Instrument ambient influence', type: 'B', distribution: 'standard', value: 0.1, coverageFactor: null, unit: 'K', input: 'reading', dof: null },
       { name: 'Size of source and distance', type: 'B', distribution: 'standard', value: 0.1, coverageFactor: null, unit: 'K', input: 'reading', dof: null },
@@ -57,10 +60,12 @@ export const DEMO_PROCEDURES: ProcedureCreateInput[] = [
     guardBandFactor: 1,
     changeNote: 'First issue in Bandlight.',
     applicability: { sourceKinds: ['cavity'], bandMinUm: 0.6, bandMaxUm: 5, minK: C(50), maxK: C(1500) },
+    // The cavity's and the reference thermometer's lines come from their register entries; the
+    // reflected and the instrument temperature are read from the one room sensor (r = 1, GUM 5.2.2).
+    budgetFromEquipment: true,
+    spotMargin: 2,
+    correlations: [{ between: [0, 1], coefficient: 1 }],
     template: [
-      { name: 'Reference thermometer in the cavity (certificate)', type: 'B', distribution: 'normal', value: 0.06, coverageFactor: 2, unit: 'K', input: 'sourceTemperature', dof: null },
-      { name: 'Cavity emissivity', type: 'B', distribution: 'rectangular', value: 0.2, coverageFactor: null, unit: 'percent-of-emissivity', input: 'sourceEmissivity', dof: null },
-      { name: 'Cavity uniformity and stability', type: 'B', distribution: 'rectangular', value: 0.15, coverageFactor: null, unit: 'K', input: 'sourceTemperature', dof: null },
       { name: 'Reflected temperature', type: 'B', distribution: 'rectangular', value: 2, coverageFactor: null, unit: 'K', input: 'reflectedTemperature', dof: null },
       { name: 'Instrument temperature', type: 'B', distribution: 'rectangular', value: 1, coverageFactor: null, unit: 'K', input: 'instrumentTemperature', dof: null },
       { name: 'Size of source', type: 'B', distribution: 'standard', value: 150, coverageFactor: null, unit: 'mK', input: 'reading', dof: 12 },
@@ -99,6 +104,8 @@ interface DemoRun {
   calibrationDate: string
   adjusted?: boolean
   emissivitySetting: number
+  /** The spot diameter at the distance, mm, for an instrument that states no distance-to-spot ratio (an imager's region of interest). */
+  spotDiameterMm?: number
   status: 'draft' | 'submitted' | 'returned' | 'approved'
   comments?: string
   internalNotes?: string
@@ -117,7 +124,7 @@ const DEMO_RUNS: DemoRun[] = [
   { instrumentTag: 'KF-IR-013', procedure: 0, receivedDate: '2026-11-02', calibrationDate: '2026-11-09', status: 'approved', emissivitySetting: 0.95,
     receipt: { packaging: 'Maker’s carry case, intact', condition: 'Lens scratched near its edge; housing and display undamaged.', accessories: 'Wrist strap', deviations: 'Lens scratched near its edge.', customerDecision: 'Calibrate as received; the customer will replace the lens at the next service.' },
     points: [{ source: PLATE, setC: 0, errorK: 0.3 }, { source: PLATE, setC: 50, errorK: 0.2 }, { source: PLATE, setC: 100, errorK: -0.4 }] },
-  { instrumentTag: 'BF-IR-009', procedure: 0, receivedDate: '2026-11-16', calibrationDate: '2026-11-20', status: 'submitted', emissivitySetting: 0.95, receipt: CASE_OK,
+  { instrumentTag: 'BF-IR-009', procedure: 0, receivedDate: '2026-11-16', calibrationDate: '2026-11-20', status: 'submitted', emissivitySetting: 0.95, spotDiameterMm: 12, receipt: CASE_OK,
     points: [{ source: PLATE, setC: 0, errorK: -0.6 }, { source: PLATE, setC: 50, errorK: -0.9 }, { source: PLATE, setC: 100, errorK: -1.2 }] },
   { instrumentTag: 'PG-IR-008', procedure: 0, receivedDate: '2026-11-12', calibrationDate: '2026-11-18', status: 'returned', emissivitySetting: 0.95, receipt: { packaging: 'Padded envelope', condition: 'No visible damage.' },
     comments: 'The 100 °C readings scatter more than the other points: check the plate had settled and repeat the point.',
@@ -233,6 +240,7 @@ export async function seedRuns(t: Transaction): Promise<number> {
     let run = await CalibrationRun.findByPk(runId, { transaction: t })
     run = await updateRunIn(t, technician, runId, {
       ...CONDITIONS,
+      spotDiameterMm: spec.spotDiameterMm ?? null,
       ambientInstrumentId: ambientSensor?.id ?? null,
       adjusted: !!spec.adjusted,
       internalNotes: spec.internalNotes ?? null,
@@ -256,7 +264,8 @@ export async function seedRuns(t: Transaction): Promise<number> {
         referenceReadingK: ref ? Math.round((setPointK + 0.12) * 1000) / 1000 : null,
         readingsK: [setPointK],
       }
-      const expected = computePoint(computationInput(run, ctx, obs, source)).expectedReadingK
+      const used = await new Equipment(t, run.calibrationDate).used(obs)
+      const expected = computePoint(computationInput(run, ctx, obs, source, used)).expectedReadingK
       const step = instrument.resolutionK
       const readingsK = SCATTER.map(s => Math.round(Math.round((expected - 273.15 + pt.errorK + s) / step) * step * 1000) / 1000 + 273.15)
         .map(r => Math.round(r * 1000) / 1000)

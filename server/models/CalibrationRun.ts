@@ -22,6 +22,8 @@ export class CalibrationRun extends Model<InferAttributes<CalibrationRun>, Infer
   declare ambientTemperatureK: number | null
   declare relativeHumidityPct: number | null
   declare distanceMm: number | null
+  /** A spot diameter stated for the run at its distance, mm (fixed-focus instruments); null: from the instrument's D:S. */
+  declare spotDiameterMm: number | null
   declare emissivitySetting: number | null
   declare reflectedTemperatureK: number | null
   declare instrumentTemperatureK: number | null
@@ -70,6 +72,7 @@ CalibrationRun.init(
     ambientTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
     relativeHumidityPct: { type: DataTypes.DOUBLE, allowNull: true },
     distanceMm: { type: DataTypes.DOUBLE, allowNull: true },
+    spotDiameterMm: { type: DataTypes.DOUBLE, allowNull: true },
     emissivitySetting: { type: DataTypes.DOUBLE, allowNull: true },
     reflectedTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
     instrumentTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },

@@ -6,18 +6,28 @@
  * with the inputs, so a stored result can be recomputed exactly.
  *
  * Steps and the methods they implement (units: kelvin unless stated):
- * 1. Reference temperature T_s: the source's indicated temperature plus the correction of its
+ * 1. Reference temperature: the source's indicated temperature plus the correction of its
  *    certificate, interpolated linearly and never extrapolated (shared/registers/correction.ts), or
- *    the reading of a reference thermometer.
+ *    the reading of a reference thermometer. The source's value has the basis its certificate states
+ *    (`reference.basis`, shared/registers/constants.ts CERTIFIED_BASES): a cavity or surface temperature
+ *    is the source temperature T_s itself; a radiance temperature T_rad in band b0 with the surroundings
+ *    at T_w0 gives T_s from ε_s·S_b0(T_s) + (1 − ε_s)·S_b0(T_w0) = S_b0(T_rad) (domain notes §7;
+ *    shared/radiometry/radianceTemperature.ts). Without a basis (results before engine 1.2.0) the value is T_s.
  * 2. Expected reading from the reading model ε_i·S(T_meas) + (1 − ε_i)·S(T_d) = ε_s·S(T_s) + (1 − ε_s)·S(T_w)
- *    (ASTM E2758 / E2847 form, see shared/radiometry/reading.ts) and its sensitivity coefficients
- *    ∂T_meas/∂x at the point (implicit differentiation of the same model).
+ *    in the instrument's band with today's T_w (ASTM E2758 / E2847 form, see shared/radiometry/reading.ts)
+ *    and its sensitivity coefficients ∂T_meas/∂x at the point (implicit differentiation of the same model;
+ *    for a radiance basis through both equations: dT_meas/dT_rad, dT_meas/dε_s with ε_s in both steps,
+ *    dT_meas/dT_w0; a line on `sourceTemperature` then moves T_s itself).
  * 3. Mean reading, experimental standard deviation s (GUM 4.2.2, n − 1 in the denominator), error of
  *    indication E = mean − expected (VIM 2.16) and correction −E.
- * 4. Budget (GUM 5.1.2): the procedure's template components, each converted to a standard
+ * 4. Budget (GUM 5.1.2): the procedure's template components, then the lines of the reference equipment
+ *    used (`equipmentLines`: the source's certified U with its k, its emissivity uncertainty for the
+ *    band, uniformity, stability; the reference thermometer's calibration), each converted to a standard
  *    uncertainty in its input's unit (normal U/k; rectangular a/√3; triangular a/√6; U-shaped a/√2;
  *    GUM 4.3.7, 4.3.9) with its sensitivity from step 2 (c = 1 on the reading); the repeatability of
  *    the mean s/√n (Type A, ν = n − 1, GUM 4.2.3) when n ≥ 2; the display resolution δ/√12 (GUM F.2.2.1).
+ *    Every line states its origin (the procedure and version, the register entry and certificate, or
+ *    the point's readings).
  *    u_c, ν_eff (Welch–Satterthwaite, GUM G.4.1), k = t_{95.45 %}(ν_eff) and U = k·u_c by
  *    shared/uncertainty/budget.ts; correlated template components (`correlations`, pairs of template
  *    indices with r) enter u_c by GUM 5.2.2 eq. (16) (see budget.ts for ν_eff and the shares).
@@ -29,13 +39,14 @@
  */
 import { ENGINE_VERSION } from '../engine'
 import { EngineInputError } from '../radiometry/errors'
-import { prepareBand, type Band } from '../radiometry/planck'
+import { prepareBand, type Band, type PreparedBand } from '../radiometry/planck'
+import { expectedReadingFromRadianceTemperature } from '../radiometry/radianceTemperature'
 import { readingSensitivities, type ReadingSensitivities } from '../radiometry/reading'
 import { correctionAt, CorrectionRangeError } from '../registers/correction'
 import { evaluateBudget, roundResult, validateCorrelations, type BudgetCorrelation } from '../uncertainty/budget'
 import { evaluateConformity } from '../uncertainty/conformity'
-import type { BudgetLine, CmcEntry, PointComputationInput, PointResult, TemplateComponent } from '../types/runs'
-import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
+import type { BudgetLine, CmcEntry, PointComputationInput, PointResult, ReferenceBasis, ReferenceBasisInput, TemplateComponent } from '../types/runs'
+import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, RADIANCE_BASIS_INPUTS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
 
 /** Name of the Type A line added from the readings. */
 export const REPEATABILITY_NAME = 'Repeatability of the readings (s/√n)'
@@ -43,6 +54,10 @@ export const REPEATABILITY_NAME = 'Repeatability of the readings (s/√n)'
 export const RESOLUTION_NAME = 'Display resolution of the instrument (δ/√12)'
 /** The remark added to a budget computed from one reading. */
 export const SINGLE_READING_NOTE = 'One reading only: the repeatability (Type A, s/√n) cannot be evaluated and is not in the budget.'
+/** Origin of the lines computed from the point's own readings. */
+export const READINGS_ORIGIN = 'The readings of this point'
+/** Origin of the display-resolution line. */
+export const RESOLUTION_ORIGIN = 'The instrument’s display resolution (instrument register)'
 
 /**
  * Reference temperature of a point, K.
@@ -79,13 +94,14 @@ export function referenceTemperature(reference: PointComputationInput['reference
  * @param c - the component (value in `c.unit`)
  * @param inputValue - the value of the emissivity input at the point (needed for `percent-of-emissivity`)
  * @param index - position in the template, for error field names `template[i].…`
+ * @param list - the list the component is in, for error field names (`template` or `equipmentLines`)
  * @returns u(xᵢ), K or absolute emissivity
  * @throws EngineInputError (`template[i].value`, `.coverageFactor`, `.unit`)
  * @example templateStandardUncertainty({ distribution: 'rectangular', value: 1, unit: 'percent-of-emissivity', input: 'sourceEmissivity', … }, 0.95)
  *   ≈ 0.0095/√3 = 0.005485
  */
-export function templateStandardUncertainty(c: TemplateComponent, inputValue: number, index = 0): number {
-  const f = `template[${index}]`
+export function templateStandardUncertainty(c: TemplateComponent, inputValue: number, index = 0, list = 'template'): number {
+  const f = `${list}[${index}]`
   if (!(typeof c.value === 'number' && Number.isFinite(c.value) && c.value >= 0)) throw new EngineInputError(`${f}.value`, 'must be a finite number ≥ 0')
   const emissivityInput = EMISSIVITY_INPUTS.includes(c.input)
   const allowed = emissivityInput ? UNITS_FOR_EMISSIVITY : UNITS_FOR_TEMPERATURE
@@ -125,8 +141,16 @@ export function cmcAt(cmc: readonly CmcEntry[], temperatureK: number): number | 
   return best
 }
 
-function sensitivityFor(input: ModelInput, s: ReadingSensitivities): number {
-  return input === 'reading' ? 1 : s[input]
+/** Sensitivity coefficients of a point: those of the reading model, and for a radiance basis those of T_rad and T_w0. */
+type PointSensitivities = ReadingSensitivities & { radianceTemperature: number | null, certificationReflectedTemperature: number | null }
+
+function sensitivityFor(input: ModelInput, s: PointSensitivities, field: string): number {
+  if (input === 'reading') return 1
+  const c = s[input]
+  if (c === null) {
+    throw new EngineInputError(field, `a line on ${input} needs a source whose certified value is a radiance temperature; this point's reference is not one`)
+  }
+  return c
 }
 
 /** Coverage factor of a CMC entry's expanded uncertainty (CmcEntry: k = 2). */
@@ -144,22 +168,88 @@ function templateCorrelations(correlations: PointComputationInput['correlations'
   return validateCorrelations(correlations, templateLength).map(({ i, j, r }) => ({ between: [i, j] as [number, number], coefficient: r }))
 }
 
-/** The reading-model field names become the point's own: T_s comes from the reference input. */
+/** The reading-model field names become the point's own: T_s comes from the reference input, T_rad's band and T_w0 from the source. */
 function pointField(field: string, reference: PointComputationInput['reference']): string {
-  if (field === 'sourceTemperatureK') return reference.kind === 'source-correction' ? 'sourceIndicatedK' : 'referenceReadingK'
+  if (field === 'sourceTemperatureK' || field === 'radianceTemperatureK') return reference.kind === 'source-correction' ? 'sourceIndicatedK' : 'referenceReadingK'
+  if (field.startsWith('radianceTemperatureBand') || field === 'certificationReflectedTemperatureK') return 'sourceId'
   if (field.startsWith('band')) return 'instrument.band'
   return field
 }
 
+/** Calls the engine, naming a refused input by the point's field. */
+function asPoint<T>(fn: () => T, reference: PointComputationInput['reference']): T {
+  try {
+    return fn()
+  }
+  catch (err) {
+    if (err instanceof EngineInputError) throw new EngineInputError(pointField(err.field, reference), err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message)
+    throw err
+  }
+}
+
+/** The basis of the point's reference temperature (a source without a stated basis: its value is T_s). */
+function basisOf(reference: PointComputationInput['reference']): { basis: ReferenceBasis, input: ReferenceBasisInput | null } {
+  if (reference.kind === 'reference-thermometer') return { basis: 'reference-thermometer', input: null }
+  const b = reference.basis ?? null
+  return { basis: b?.kind ?? 'surface-temperature', input: b }
+}
+
+/**
+ * The expected reading and its sensitivities from the reference temperature on its basis (steps 1–2).
+ * @returns T_s (K), the sensitivities (K per input unit; T_rad and T_w0 null unless a radiance basis)
+ */
+function modelAtPoint(input: PointComputationInput, band: Band | PreparedBand, referenceK: number, basis: ReferenceBasisInput | null): { sourceTemperatureK: number, sens: PointSensitivities } {
+  const common = {
+    band,
+    sourceEmissivity: input.sourceEmissivity,
+    reflectedTemperatureK: input.reflectedTemperatureK,
+    instrumentTemperatureK: input.instrumentTemperatureK,
+    emissivitySetting: input.emissivitySetting,
+  }
+  if (basis?.kind !== 'radiance-temperature') {
+    const s = asPoint(() => readingSensitivities({ ...common, sourceTemperatureK: referenceK }), input.reference)
+    return { sourceTemperatureK: referenceK, sens: { ...s, radianceTemperature: null, certificationReflectedTemperature: null } }
+  }
+  if (!(typeof basis.reflectedTemperatureK === 'number' && Number.isFinite(basis.reflectedTemperatureK) && basis.reflectedTemperatureK > 0)) {
+    throw new EngineInputError('sourceId', 'the source’s radiance temperature needs the temperature of the surroundings when it was certified (T_w0)')
+  }
+  const r = asPoint(() => expectedReadingFromRadianceTemperature({
+    ...common,
+    radianceTemperatureBand: basis.band as Band,
+    radianceTemperatureK: referenceK,
+    certificationReflectedTemperatureK: basis.reflectedTemperatureK,
+  }), input.reference)
+  // ∂T_meas/∂T_s at fixed ε_s (a line that moves the surface temperature itself) from the reading model at T_s
+  const atTs = asPoint(() => readingSensitivities({ ...common, sourceTemperatureK: r.sourceTemperatureK }), input.reference)
+  return {
+    sourceTemperatureK: r.sourceTemperatureK,
+    sens: {
+      expectedReadingK: r.expectedReadingK,
+      sourceTemperature: atTs.sourceTemperature,
+      // ε_s enters both T_s (step 1) and the reading model (step 2): the total derivative
+      sourceEmissivity: r.sensitivities.sourceEmissivity,
+      reflectedTemperature: r.sensitivities.reflectedTemperature,
+      instrumentTemperature: r.sensitivities.instrumentTemperature,
+      emissivitySetting: r.sensitivities.emissivitySetting,
+      radianceTemperature: r.sensitivities.radianceTemperature,
+      certificationReflectedTemperature: r.sensitivities.certificationReflectedTemperature,
+    },
+  }
+}
+
 /**
  * Computes one calibration point (see the module notes for each step and its source).
- * @param input - band (µm), reference (K), ε_s, T_w (K), T_d (K), ε_i, readings (K, 1–50), resolution δ (K),
- *   the budget template, the CMC ranges (K, k = 2), the accuracy specification, the decision rule and r
+ * @param input - band (µm), reference (K) with the basis of the source's value, ε_s, T_w (K), T_d (K), ε_i,
+ *   readings (K, 1–50), resolution δ (K), the budget template with its origin, the equipment's lines,
+ *   the CMC ranges (K, k = 2), the accuracy specification, the decision rule and r
  * @returns the point result with its inputs and the engine version
  * @throws EngineInputError naming the field at fault (`readingsK[i]`, `sourceIndicatedK`, `referenceReadingK`,
- *   `resolutionK`, `template[i].…`, `emissivitySetting`, `instrumentTemperatureK`, …)
+ *   `resolutionK`, `template[i].…`, `equipmentLines[i].…`, `sourceId` (the source's certified band or T_w0),
+ *   `emissivitySetting`, `instrumentTemperatureK`, …)
  * @example 8–14 µm, T_s = 373.15 K, ε_s = ε_i = 0.95, T_w = T_d = 296.15 K, readings [373.3, 373.5]:
- *   expectedReadingK = 373.15, meanReadingK = 373.4, errorK = 0.25, correctionK = −0.25
+ *   expectedReadingK = 373.15, meanReadingK = 373.4, errorK = 0.25, correctionK = −0.25;
+ *   the same with a radiance basis (8–14 µm, T_w0 = 296.15 K) and ε_s = 0.95: T_s ≈ 376.3 K and
+ *   expectedReadingK ≈ 376.3 K (the instrument set to the plate's emissivity reads its surface temperature)
  */
 export function computePoint(input: PointComputationInput): PointResult {
   const readings = input.readingsK
@@ -172,23 +262,10 @@ export function computePoint(input: PointComputationInput): PointResult {
     throw new EngineInputError('resolutionK', "the instrument's display resolution must be above 0 K")
   }
   const { referenceTemperatureK, sourceCorrectionK } = referenceTemperature(input.reference)
+  const { basis, input: basisInput } = basisOf(input.reference)
 
   const band = input.band.kind === 'tabulated' ? prepareBand(input.band as Band) : (input.band as Band)
-  let sens: ReadingSensitivities
-  try {
-    sens = readingSensitivities({
-      band,
-      sourceTemperatureK: referenceTemperatureK,
-      sourceEmissivity: input.sourceEmissivity,
-      reflectedTemperatureK: input.reflectedTemperatureK,
-      instrumentTemperatureK: input.instrumentTemperatureK,
-      emissivitySetting: input.emissivitySetting,
-    })
-  }
-  catch (err) {
-    if (err instanceof EngineInputError) throw new EngineInputError(pointField(err.field, input.reference), err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message)
-    throw err
-  }
+  const { sourceTemperatureK, sens } = modelAtPoint(input, band, referenceTemperatureK, basisInput)
   const expected = sens.expectedReadingK
 
   const n = readings.length
@@ -197,33 +274,46 @@ export function computePoint(input: PointComputationInput): PointResult {
   const error = mean - expected
 
   const valueOf: Record<ModelInput, number> = {
-    sourceTemperature: referenceTemperatureK,
+    sourceTemperature: sourceTemperatureK,
+    radianceTemperature: referenceTemperatureK,
+    certificationReflectedTemperature: basisInput?.kind === 'radiance-temperature' ? basisInput.reflectedTemperatureK : Number.NaN,
     sourceEmissivity: input.sourceEmissivity,
     reflectedTemperature: input.reflectedTemperatureK,
     instrumentTemperature: input.instrumentTemperatureK,
     emissivitySetting: input.emissivitySetting,
     reading: mean,
   }
-  const lines: Omit<BudgetLine, 'contributionK' | 'percent'>[] = input.template.map((c, i) => ({
-    name: c.name,
-    type: c.type,
-    input: c.input,
-    distribution: c.distribution,
-    value: c.value,
-    unit: c.unit,
-    standardUncertainty: templateStandardUncertainty(c, valueOf[c.input], i),
-    sensitivity: sensitivityFor(c.input, sens),
-    dof: c.dof ?? null,
-  }))
-  const notes: string[] = []
+  const line = (c: TemplateComponent, i: number, list: 'template' | 'equipmentLines', origin: string | undefined): Omit<BudgetLine, 'contributionK' | 'percent'> => {
+    if (RADIANCE_BASIS_INPUTS.includes(c.input) && basis !== 'radiance-temperature') {
+      throw new EngineInputError(`${list}[${i}].input`, `a line on ${c.input} needs a source whose certified value is a radiance temperature; this point's reference is a ${basis.replace('-', ' ')}`)
+    }
+    return {
+      name: c.name,
+      type: c.type,
+      input: c.input,
+      distribution: c.distribution,
+      value: c.value,
+      unit: c.unit,
+      standardUncertainty: templateStandardUncertainty(c, valueOf[c.input], i, list),
+      sensitivity: sensitivityFor(c.input, sens, `${list}[${i}].input`),
+      dof: c.dof ?? null,
+      ...(c.distribution === 'normal' ? { coverageFactor: c.coverageFactor } : {}),
+      ...(origin !== undefined ? { origin } : {}),
+    }
+  }
+  const lines: Omit<BudgetLine, 'contributionK' | 'percent'>[] = input.template.map((c, i) => line(c, i, 'template', input.templateOrigin))
+  const equipment = input.equipmentLines ?? []
+  if (!Array.isArray(equipment)) throw new EngineInputError('equipmentLines', 'must be a list of budget lines')
+  equipment.forEach((c, i) => lines.push(line(c, i, 'equipmentLines', c.origin)))
+  const notes: string[] = [...(Array.isArray(input.setupNotes) ? input.setupNotes.filter(x => typeof x === 'string') : [])]
   if (n >= 2) {
     const u = stdDev / Math.sqrt(n)
-    lines.push({ name: REPEATABILITY_NAME, type: 'A', input: 'reading', distribution: 'standard', value: u, unit: 'K', standardUncertainty: u, sensitivity: 1, dof: n - 1 })
+    lines.push({ name: REPEATABILITY_NAME, type: 'A', input: 'reading', distribution: 'standard', value: u, unit: 'K', standardUncertainty: u, sensitivity: 1, dof: n - 1, origin: `${READINGS_ORIGIN} (n = ${n})` })
   }
   else {
     notes.push(SINGLE_READING_NOTE)
   }
-  lines.push({ name: RESOLUTION_NAME, type: 'B', input: 'reading', distribution: 'resolution', value: input.resolutionK, unit: 'K', standardUncertainty: input.resolutionK / Math.sqrt(12), sensitivity: 1, dof: null })
+  lines.push({ name: RESOLUTION_NAME, type: 'B', input: 'reading', distribution: 'resolution', value: input.resolutionK, unit: 'K', standardUncertainty: input.resolutionK / Math.sqrt(12), sensitivity: 1, dof: null, origin: RESOLUTION_ORIGIN })
 
   const correlations = templateCorrelations(input.correlations, input.template.length)
   const budget = evaluateBudget(
@@ -250,6 +340,8 @@ export function computePoint(input: PointComputationInput): PointResult {
 
   return {
     referenceTemperatureK,
+    referenceBasis: basis,
+    sourceTemperatureK,
     sourceCorrectionK,
     expectedReadingK: expected,
     meanReadingK: mean,

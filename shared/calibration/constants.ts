@@ -61,12 +61,19 @@ export const COMPONENT_UNIT_LABELS: Record<ComponentUnit, string> = {
 
 /**
  * The input of the reading model a component acts on. The sensitivity coefficient comes from the
- * model at each point; `reading` acts on the reading itself (c = 1).
+ * model at each point; `reading` acts on the reading itself (c = 1). `radianceTemperature` (the
+ * certified T_rad) and `certificationReflectedTemperature` (T_w0, the surroundings when T_rad was
+ * certified) exist only for a source whose certified value is a radiance temperature; there
+ * `sourceTemperature` is the surface temperature T_s found from T_rad.
  */
-export const MODEL_INPUTS = ['sourceTemperature', 'sourceEmissivity', 'reflectedTemperature', 'instrumentTemperature', 'emissivitySetting', 'reading'] as const
+export const MODEL_INPUTS = ['sourceTemperature', 'radianceTemperature', 'certificationReflectedTemperature', 'sourceEmissivity', 'reflectedTemperature', 'instrumentTemperature', 'emissivitySetting', 'reading'] as const
 export type ModelInput = (typeof MODEL_INPUTS)[number]
+/** Inputs that only a radiance-temperature basis has. */
+export const RADIANCE_BASIS_INPUTS: readonly ModelInput[] = ['radianceTemperature', 'certificationReflectedTemperature']
 export const MODEL_INPUT_LABELS: Record<ModelInput, string> = {
   sourceTemperature: 'Source temperature T_s',
+  radianceTemperature: 'Certified radiance temperature T_rad',
+  certificationReflectedTemperature: 'Surroundings at the source’s certification T_w0',
   sourceEmissivity: 'Source emissivity ε_s',
   reflectedTemperature: 'Reflected temperature T_w',
   instrumentTemperature: 'Instrument temperature T_d',

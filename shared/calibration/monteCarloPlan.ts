@@ -23,12 +23,26 @@
  *   for the five model inputs and the output terms as one list with the correlations in its indices,
  *   and {@link planModel} for the matching model (reading + Σ output terms): correlated output terms
  *   must be drawn in the same trials as the model inputs.
+ * - A point whose reference is a radiance temperature (shared/calibration/compute.ts, step 1) runs the
+ *   two-step model of shared/radiometry/radianceTemperature.ts over {@link MC_RADIANCE_MODEL_INPUTS}
+ *   (T_rad, ε_s, T_w0, T_w, T_d, ε_i): ε_s is sampled once and enters both steps. Lines that move the
+ *   surface temperature T_s itself are then added to the output to first order (c = ∂T_meas/∂T_s), as
+ *   the notes say. {@link planReadingModel} gives the model for either plan.
  */
+import type { RadiationConstantsId } from '../radiometry/constants'
+import type { Band } from '../radiometry/planck'
+import { INVERSION_RANGE_K } from '../radiometry/inversion'
+import { radianceTemperatureReadingModel } from '../radiometry/radianceTemperature'
+import { readingModel } from '../radiometry/reading'
 import type { MonteCarloCorrelation, MonteCarloInput } from '../uncertainty/montecarlo'
-import type { BudgetLine, PointResult } from '../types/runs'
+import type { BandInput, BudgetLine, CertifiedBandInput, PointResult } from '../types/runs'
 
+/** Inputs of the reading model x = [T_s, ε_s, T_w, T_d, ε_i] (shared/radiometry/reading.ts readingModel). */
 export const MC_MODEL_INPUTS = ['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
 export type McModelInput = (typeof MC_MODEL_INPUTS)[number]
+/** Inputs of the radiance-temperature model x = [T_rad, ε_s, T_w0, T_w, T_d, ε_i] (radianceTemperatureReadingModel). */
+export const MC_RADIANCE_MODEL_INPUTS = ['radianceTemperatureK', 'sourceEmissivity', 'certificationReflectedTemperatureK', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
+export type McRadianceModelInput = (typeof MC_RADIANCE_MODEL_INPUTS)[number]
 
 const LINE_INPUT: Record<string, McModelInput | null> = {
   sourceTemperature: 'sourceTemperatureK',
@@ -38,15 +52,37 @@ const LINE_INPUT: Record<string, McModelInput | null> = {
   emissivitySetting: 'emissivitySetting',
   reading: null,
 }
+const RADIANCE_LINE_INPUT: Record<string, McRadianceModelInput | null> = {
+  radianceTemperature: 'radianceTemperatureK',
+  certificationReflectedTemperature: 'certificationReflectedTemperatureK',
+  sourceEmissivity: 'sourceEmissivity',
+  reflectedTemperature: 'reflectedTemperatureK',
+  instrumentTemperature: 'instrumentTemperatureK',
+  emissivitySetting: 'emissivitySetting',
+  sourceTemperature: null,
+  reading: null,
+}
+
+/**
+ * The model a plan runs, as plain data a worker thread can receive: the reading model in the
+ * instrument's band, or the radiance-temperature model with the band b0 of the source's certified value.
+ */
+export type McModelSpec =
+  | { kind: 'reading', band: BandInput, constants?: RadiationConstantsId }
+  | { kind: 'radiance-temperature', band: BandInput, radianceTemperatureBand: CertifiedBandInput, constants?: RadiationConstantsId }
 
 export interface MonteCarloPlan {
-  /** One distribution per model input, in its unit (K or emissivity). */
-  inputs: Record<McModelInput, MonteCarloInput>
+  /** The model the inputs run through. */
+  model: McModelSpec
+  /** Names of the model inputs in the model's order ({@link MC_MODEL_INPUTS} or {@link MC_RADIANCE_MODEL_INPUTS}). */
+  modelInputs: readonly string[]
+  /** One distribution per model input, in its unit (K or emissivity), keyed by the names of `modelInputs`. */
+  inputs: Record<string, MonteCarloInput>
   /** Zero-mean terms added to the model output, K. */
   outputTerms: MonteCarloInput[]
   /**
-   * Correlated pairs, indices in the order of {@link monteCarloPlanInputs}: 0–4 the model inputs in
-   * {@link MC_MODEL_INPUTS} order, 5 + k the output term k. Empty without correlations.
+   * Correlated pairs, indices in the order of {@link monteCarloPlanInputs}: 0 … m − 1 the model inputs in
+   * `modelInputs` order, m + k the output term k. Empty without correlations.
    */
   correlations: MonteCarloCorrelation[]
   /** The GUM result to validate: y = expected reading, u = u_c, U = k·u_c (computed, before any CMC floor), K. */
@@ -86,8 +122,15 @@ export function lineDistribution(line: BudgetLine, value: number, scale: number)
  */
 export function monteCarloPlan(result: PointResult): MonteCarloPlan {
   const i = result.inputs
-  const at: Record<McModelInput, number> = {
+  const basis = i.reference.kind === 'source-correction' ? i.reference.basis : undefined
+  const radiance = basis?.kind === 'radiance-temperature' ? basis : null
+  const model: McModelSpec = radiance ? { kind: 'radiance-temperature', band: i.band, radianceTemperatureBand: radiance.band } : { kind: 'reading', band: i.band }
+  const names: readonly string[] = radiance ? MC_RADIANCE_MODEL_INPUTS : MC_MODEL_INPUTS
+  const lineInput: Record<string, string | null> = radiance ? RADIANCE_LINE_INPUT : LINE_INPUT
+  const at: Record<string, number> = {
     sourceTemperatureK: result.referenceTemperatureK,
+    radianceTemperatureK: result.referenceTemperatureK,
+    certificationReflectedTemperatureK: radiance ? radiance.reflectedTemperatureK : Number.NaN,
     sourceEmissivity: i.sourceEmissivity,
     reflectedTemperatureK: i.reflectedTemperatureK,
     instrumentTemperatureK: i.instrumentTemperatureK,
@@ -95,27 +138,29 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
   }
   const notes: string[] = []
   const outputTerms: MonteCarloInput[] = []
-  const inputs = Object.fromEntries(MC_MODEL_INPUTS.map(k => [k, { name: k, distribution: 'constant', value: at[k] } as MonteCarloInput])) as Record<McModelInput, MonteCarloInput>
-  // where each budget line went: a model input slot (0–4) or an output term (5 + k), with its sign
+  const inputs: Record<string, MonteCarloInput> = Object.fromEntries(names.map(k => [k, { name: k, distribution: 'constant', value: at[k]! } as MonteCarloInput]))
+  // where each budget line went: a model input slot (0 … m − 1) or an output term (m + k), with its sign
   const slotOf = new Map<number, { slot: number, sign: number }>()
   const lines = result.budget.components
   const indexOf = new Map(lines.map((l, i) => [l, i]))
-  for (const [slot, k] of MC_MODEL_INPUTS.entries()) {
-    const onInput = lines.filter(l => LINE_INPUT[l.input] === k && l.standardUncertainty > 0)
+  const m = names.length
+  for (const [slot, k] of names.entries()) {
+    const onInput = lines.filter(l => lineInput[l.input] === k && l.standardUncertainty > 0)
     if (!onInput.length) continue
     const sorted = [...onInput].sort((a, b) => b.contributionK - a.contributionK)
-    inputs[k] = { ...lineDistribution(sorted[0]!, at[k], 1), name: k }
+    inputs[k] = { ...lineDistribution(sorted[0]!, at[k]!, 1), name: k }
     slotOf.set(indexOf.get(sorted[0]!)!, { slot, sign: 1 })
     for (const extra of sorted.slice(1)) {
-      slotOf.set(indexOf.get(extra)!, { slot: MC_MODEL_INPUTS.length + outputTerms.length, sign: Math.sign(extra.sensitivity) || 1 })
+      slotOf.set(indexOf.get(extra)!, { slot: m + outputTerms.length, sign: Math.sign(extra.sensitivity) || 1 })
       outputTerms.push(lineDistribution(extra, 0, Math.abs(extra.sensitivity)))
       notes.push(`${extra.name}: a second component on ${extra.input}, added to the reading to first order (c = ${Number(extra.sensitivity.toPrecision(4))})`)
     }
   }
   lines.forEach((l, i) => {
-    if (l.input !== 'reading' || !(l.standardUncertainty > 0)) return
-    slotOf.set(i, { slot: MC_MODEL_INPUTS.length + outputTerms.length, sign: 1 })
-    outputTerms.push(lineDistribution(l, 0, 1))
+    if (lineInput[l.input] !== null || !(l.standardUncertainty > 0)) return
+    slotOf.set(i, { slot: m + outputTerms.length, sign: l.input === 'reading' ? 1 : Math.sign(l.sensitivity) || 1 })
+    outputTerms.push(lineDistribution(l, 0, l.input === 'reading' ? 1 : Math.abs(l.sensitivity)))
+    if (l.input !== 'reading') notes.push(`${l.name}: moves the surface temperature found from the radiance temperature; added to the reading to first order (c = ${Number(l.sensitivity.toPrecision(4))})`)
   })
   const correlations: MonteCarloCorrelation[] = []
   for (const c of result.inputs.correlations ?? []) {
@@ -131,6 +176,8 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
     notes.push(`${lines[a]!.name} and ${lines[b]!.name}: sampled jointly with r = ${c.coefficient} (JCGM 101 6.4.8; a Gaussian copula matched to r for non-normal lines).`)
   }
   return {
+    model,
+    modelInputs: names,
     inputs,
     outputTerms,
     correlations,
@@ -140,27 +187,45 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
 }
 
 /**
- * The plan's distributions as one list: the five model inputs in {@link MC_MODEL_INPUTS} order, then the
- * output terms; with the correlations in the same indices. Run it with {@link planModel}.
+ * The plan's distributions as one list: the model inputs in `plan.modelInputs` order, then the
+ * output terms; with the correlations in the same indices. Run it with {@link planReadingModel}.
  * @param plan - a Monte Carlo plan
  * @returns inputs (model inputs in K or emissivity, output terms in K) and correlations
- * @example runMonteCarlo(planModel(readingModel(band)), ...Object.values(monteCarloPlanInputs(plan)))
+ * @example runMonteCarlo(planReadingModel(plan), ...Object.values(monteCarloPlanInputs(plan)))
  */
 export function monteCarloPlanInputs(plan: MonteCarloPlan): { inputs: MonteCarloInput[], correlations: MonteCarloCorrelation[] } {
-  return { inputs: [...MC_MODEL_INPUTS.map(k => plan.inputs[k]), ...plan.outputTerms], correlations: plan.correlations }
+  const names = plan.modelInputs ?? MC_MODEL_INPUTS
+  return { inputs: [...names.map(k => plan.inputs[k]!), ...plan.outputTerms], correlations: plan.correlations }
 }
 
 /**
- * The model for {@link monteCarloPlanInputs}: y = reading(x₀…x₄) + Σ x₅₊ₖ (the output terms).
- * @param reading - the reading model over [T_s, ε_s, T_w, T_d, ε_i] (e.g. `readingModel(band)`), K
+ * The model for {@link monteCarloPlanInputs}: y = reading(x₀…x_{m−1}) + Σ x_{m+k} (the output terms).
+ * @param reading - the model over the m model inputs (e.g. `readingModel(band)` over [T_s, ε_s, T_w, T_d, ε_i]), K
+ * @param modelInputs - m, the number of model inputs (default 5, the reading model's)
  * @returns model function, K
  * @example planModel(readingModel(band))(x) = reading(x) + x[5] + x[6] + …
  */
-export function planModel(reading: (x: ArrayLike<number>) => number): (x: Float64Array) => number {
-  const n = MC_MODEL_INPUTS.length
+export function planModel(reading: (x: ArrayLike<number>) => number, modelInputs: number = MC_MODEL_INPUTS.length): (x: Float64Array) => number {
+  const n = modelInputs
   return (x: Float64Array): number => {
     let s = reading(x)
     for (let i = n; i < x.length; i++) s += x[i]!
     return s
   }
+}
+
+/**
+ * The model a plan (or a worker's copy of its spec) runs, with the output terms added: the reading
+ * model over a signal table for a tabulated band (readingModel with temperatureRangeK = the inversion
+ * range, 50 K to 5000 K, tables built lazily where trials go), or the radiance-temperature model.
+ * @param spec - the plan's model (`plan.model`; constants default CODATA 2018)
+ * @returns y = f(x) + Σ output terms, K
+ * @throws EngineInputError (`band…`, `radianceTemperatureBand…`) for a band the engine refuses
+ * @example runMonteCarlo(planReadingModel(plan.model), monteCarloPlanInputs(plan).inputs, { correlations: plan.correlations })
+ */
+export function planReadingModel(spec: McModelSpec): (x: Float64Array) => number {
+  if (spec.kind === 'radiance-temperature') {
+    return planModel(radianceTemperatureReadingModel(spec.radianceTemperatureBand as Band, spec.band as Band, spec.constants), MC_RADIANCE_MODEL_INPUTS.length)
+  }
+  return planModel(readingModel(spec.band as Band, spec.constants, { temperatureRangeK: INVERSION_RANGE_K }), MC_MODEL_INPUTS.length)
 }

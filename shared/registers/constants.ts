@@ -7,6 +7,38 @@
 export const SOURCE_KINDS = ['cavity', 'flat-plate'] as const
 export type SourceKind = (typeof SOURCE_KINDS)[number]
 
+/**
+ * What the value a source's certificate states is — the basis of its reference temperature:
+ * - `cavity-temperature`: the temperature of the cavity (its walls); the source emissivity ε_s and the
+ *   surroundings' reflected radiation apply in the reading model;
+ * - `surface-temperature`: the contact (surface) temperature of a plate; ε_s and the surroundings apply;
+ * - `radiance-temperature`: the temperature of a blackbody with the same band radiance in a stated band,
+ *   i.e. what an ideal instrument with emissivity setting 1 read on the source, with the surroundings at
+ *   a stated temperature T_w0 at the time; it already holds the plate's emissivity and the reflection of
+ *   those surroundings (domain notes §7).
+ */
+export const CERTIFIED_BASES = ['cavity-temperature', 'surface-temperature', 'radiance-temperature'] as const
+export type CertifiedBasis = (typeof CERTIFIED_BASES)[number]
+export const CERTIFIED_BASIS_LABELS: Record<CertifiedBasis, string> = {
+  'cavity-temperature': 'Cavity temperature',
+  'surface-temperature': 'Surface (contact) temperature',
+  'radiance-temperature': 'Radiance temperature in a stated band (emissivity setting 1)',
+}
+/**
+ * The basis a source has when none is stated (a create without `certifiedBasis`, and migration 0010 for
+ * sources recorded before): its kind's own temperature, which is how the engine used the certified value
+ * before the basis was recorded (as T_s in ε_s·S(T_s) + (1 − ε_s)·S(T_w)).
+ */
+export const DEFAULT_CERTIFIED_BASIS: Record<SourceKind, CertifiedBasis> = {
+  'cavity': 'cavity-temperature',
+  'flat-plate': 'surface-temperature',
+}
+
+/** Wavelengths of a band are stated in vacuum (default) or in air (then converted with n_air). */
+export const WAVELENGTH_MEDIA = ['vacuum', 'air'] as const
+export type WavelengthMediumName = (typeof WAVELENGTH_MEDIA)[number]
+export const WAVELENGTH_MEDIUM_LABELS: Record<WavelengthMediumName, string> = { vacuum: 'in vacuum', air: 'in air' }
+
 /** Status of the laboratory's own reference equipment (sources and reference instruments). */
 export const EQUIPMENT_STATUSES = ['in-service', 'out-of-service', 'quarantined'] as const
 export type EquipmentStatus = (typeof EQUIPMENT_STATUSES)[number]

@@ -3,8 +3,14 @@
  * Units: temperatures in kelvin, wavelengths in micrometres, radiance in W·m⁻²·sr⁻¹.
  * The engine (shared/radiometry, shared/uncertainty) checks its inputs again; these
  * schemas give the caller a field-by-field answer first.
+ *
+ * Constants: a request that uses Planck's law may say `"constants": "CODATA-2018"` (the default) or
+ * `"ITS-90"` (c₂ = 0.014388 m·K); anything else is a 400 naming `constants`, and the answer names the
+ * c₂ used. Wavelengths are in vacuum unless a band says `"medium": "air"` (then n_air, default
+ * 1.00028, converts them; shared/radiometry/planck.ts).
  */
 import { z } from 'zod'
+import { STANDARD_AIR_REFRACTIVE_INDEX } from '../radiometry/planck'
 import { accuracySpecSchema } from './instrument'
 
 const num = (label: string) => z.number({ error: `${label} must be a number` })
@@ -12,13 +18,30 @@ const positive = (label: string) => num(label).positive(`${label} must be above 
 const kelvin = (label: string) => positive(label).max(1e5, `${label} above 100000 K is out of range`)
 const emissivity = (label: string) => num(label).gt(0, `${label} must be above 0`).max(1, `${label} cannot exceed 1`)
 
+/** The radiation constants a calculation may name (shared/radiometry/constants.ts). */
+export const CONSTANTS_IDS = ['CODATA-2018', 'ITS-90'] as const
+export const constantsSchema = z.enum(CONSTANTS_IDS, { error: 'constants must be "CODATA-2018" (the default) or "ITS-90" (c₂ = 0.014388 m·K)' }).default('CODATA-2018')
+
+/** Where a band's wavelengths are stated: in vacuum (default) or in air, with the air's refractive index. */
+const mediumShape = {
+  medium: z.enum(['vacuum', 'air'], { error: 'medium is "vacuum" or "air"' }).optional(),
+  refractiveIndex: num('refractiveIndex').min(1, 'The refractive index of air is at least 1').lt(1.01, 'The refractive index of air is below 1.01').optional(),
+}
+function mediumRule(b: { medium?: 'vacuum' | 'air', refractiveIndex?: number }, ctx: z.RefinementCtx) {
+  if (b.refractiveIndex !== undefined && b.medium !== 'air') {
+    ctx.addIssue({ code: 'custom', path: ['refractiveIndex'], message: `The refractive index is for wavelengths stated in air (medium "air"; default ${STANDARD_AIR_REFRACTIVE_INDEX})` })
+  }
+}
+
 export const rectangularBandSchema = z
   .object({
     kind: z.literal('rectangular'),
     lambda1Um: positive('λ1').max(1000, 'λ1 above 1000 µm is out of range'),
     lambda2Um: positive('λ2').max(1000, 'λ2 above 1000 µm is out of range'),
+    ...mediumShape,
   })
   .refine(b => b.lambda2Um > b.lambda1Um, { path: ['lambda2Um'], message: 'λ2 must be greater than λ1' })
+  .superRefine(mediumRule)
 
 export const tabulatedBandSchema = z
   .object({
@@ -32,7 +55,9 @@ export const tabulatedBandSchema = z
       )
       .min(2, 'A responsivity table needs at least two points')
       .max(5000, 'At most 5000 points'),
+    ...mediumShape,
   })
+  .superRefine(mediumRule)
   .superRefine((b, ctx) => {
     for (let i = 1; i < b.points.length; i++) {
       if (!(b.points[i]![0] > b.points[i - 1]![0])) {
@@ -52,12 +77,14 @@ export type BandInput = z.infer<typeof bandSchema>
 export const bandRadianceSchema = z.object({
   band: bandSchema,
   temperatureK: kelvin('temperatureK'),
+  constants: constantsSchema,
 })
 export type BandRadianceInput = z.infer<typeof bandRadianceSchema>
 
 export const temperatureSchema = z.object({
   band: bandSchema,
   radiance: positive('radiance'),
+  constants: constantsSchema,
 })
 export type TemperatureInput = z.infer<typeof temperatureSchema>
 
@@ -69,7 +96,38 @@ export const readingInputShape = {
   instrumentTemperatureK: kelvin('instrumentTemperatureK'),
   emissivitySetting: emissivity('emissivitySetting'),
 }
-export const expectedReadingSchema = z.object(readingInputShape)
+
+/**
+ * A source's radiance temperature as its certificate states it: T_rad (K) in `band`, what an ideal
+ * instrument with emissivity setting 1 read on the source, with the surroundings at
+ * `reflectedTemperatureK` (T_w0) at that time (domain notes §7).
+ */
+export const sourceRadianceTemperatureSchema = z.object({
+  temperatureK: kelvin('The radiance temperature'),
+  band: bandSchema,
+  reflectedTemperatureK: kelvin('The surroundings’ temperature at certification'),
+}, { error: 'sourceRadianceTemperature is { temperatureK, band, reflectedTemperatureK }' })
+
+const EXACTLY_ONE_SOURCE = 'Give either sourceTemperatureK (the source’s temperature) or sourceRadianceTemperature (its certified radiance temperature), not both'
+
+/**
+ * POST /api/calculations/expected-reading: the reading model's inputs, the source given by its
+ * temperature T_s (`sourceTemperatureK`) or by a radiance temperature (`sourceRadianceTemperature`) —
+ * exactly one of the two.
+ */
+export const expectedReadingSchema = z
+  .object({
+    ...readingInputShape,
+    sourceTemperatureK: readingInputShape.sourceTemperatureK.optional(),
+    sourceRadianceTemperature: sourceRadianceTemperatureSchema.optional(),
+    constants: constantsSchema,
+  })
+  .superRefine((v, ctx) => {
+    const a = v.sourceTemperatureK !== undefined
+    const b = v.sourceRadianceTemperature !== undefined
+    if (a && b) ctx.addIssue({ code: 'custom', path: ['sourceRadianceTemperature'], message: EXACTLY_ONE_SOURCE })
+    if (!a && !b) ctx.addIssue({ code: 'custom', path: ['sourceTemperatureK'], message: EXACTLY_ONE_SOURCE.replace(', not both', '') })
+  })
 export type ExpectedReadingInput = z.infer<typeof expectedReadingSchema>
 
 export const DISTRIBUTION_NAMES = ['normal', 'rectangular', 'triangular', 'u-shaped', 'resolution'] as const
@@ -103,10 +161,35 @@ export const budgetComponentSchema = z
   })
 export type BudgetComponentInput = z.infer<typeof budgetComponentSchema>
 
-export const budgetSchema = z.object({
-  components: z.array(budgetComponentSchema, { error: 'components must be a list' }).min(1, 'At least one component').max(200, 'At most 200 components'),
-  coverageProbability: coverageProbabilitySchema.default(0.9545),
-})
+const lineIndex = z.number({ error: 'Each index must be a number' }).int('Each index must be a whole number').min(0, 'An index counts from 0')
+
+/** A correlation between two budget lines (GUM 5.2.2): their indices in `components` and r. */
+export const budgetCorrelationSchema = z.object({
+  between: z.tuple([lineIndex, lineIndex], { error: 'between is [i, j], the indices of two components' }),
+  coefficient: num('The correlation coefficient').min(-1, 'A correlation coefficient is from −1 to 1').max(1, 'A correlation coefficient is from −1 to 1'),
+}, { error: 'Each correlation is { between: [i, j], coefficient }' })
+
+export const budgetSchema = z
+  .object({
+    components: z.array(budgetComponentSchema, { error: 'components must be a list' }).min(1, 'At least one component').max(200, 'At most 200 components'),
+    coverageProbability: coverageProbabilitySchema.default(0.9545),
+    /** Correlated pairs of components (JCGM 100 5.2.2, eq. (16)); omitted: all independent. */
+    correlations: z.array(budgetCorrelationSchema, { error: 'correlations must be a list of { between: [i, j], coefficient }' }).max(1000, 'At most 1000 correlations').optional(),
+  })
+  .superRefine((v, ctx) => {
+    const n = v.components.length
+    const seen = new Set<string>()
+    v.correlations?.forEach((c, m) => {
+      const [i, j] = c.between
+      for (const [k, x] of [[0, i], [1, j]] as const) {
+        if (x >= n) ctx.addIssue({ code: 'custom', path: ['correlations', m, 'between', k], message: `There is no component ${x}: the budget has components 0 to ${n - 1}` })
+      }
+      if (i === j) ctx.addIssue({ code: 'custom', path: ['correlations', m, 'between'], message: 'A correlation is between two different components' })
+      const key = `${Math.min(i, j)}-${Math.max(i, j)}`
+      if (seen.has(key)) ctx.addIssue({ code: 'custom', path: ['correlations', m, 'between'], message: `Components ${i} and ${j} already have a correlation` })
+      seen.add(key)
+    })
+  })
 export type BudgetInput = z.infer<typeof budgetSchema>
 
 /** A Monte Carlo input distribution for one reading-model input. */
@@ -131,6 +214,7 @@ export const monteCarloSchema = z.object({
   trials: num('trials').int('trials must be a whole number').min(1000, 'At least 1000 trials').max(MC_MAX_TRIALS, `At most ${MC_MAX_TRIALS} trials`).default(200_000),
   seed: num('seed').int().min(0).max(0xffffffff).default(1),
   coverageProbability: coverageProbabilitySchema.default(0.95),
+  constants: constantsSchema,
 })
 export type MonteCarloRequest = z.infer<typeof monteCarloSchema>
 

@@ -40,6 +40,38 @@ export const templateComponentSchema = z
   })
 export type TemplateComponentInput = z.infer<typeof templateComponentSchema>
 
+const templateIndex = z.number({ error: 'Each index must be a number' }).int('Each index must be a whole number').min(0, 'An index counts from 0')
+
+/**
+ * A correlation between two template lines (GUM 5.2.2), e.g. the reflected and the instrument temperature
+ * read from one thermometer (r = 1): their indices in `template` and r. Monte Carlo samples the pair jointly.
+ */
+export const templateCorrelationSchema = z.object({
+  between: z.tuple([templateIndex, templateIndex], { error: 'between is [i, j], the indices of two template lines' }),
+  coefficient: numberField('The correlation coefficient').min(-1, 'A correlation coefficient is from −1 to 1').max(1, 'A correlation coefficient is from −1 to 1'),
+}, { error: 'Each correlation is { between: [i, j], coefficient }' })
+
+/**
+ * What is wrong with correlations for a template of n lines: an index beyond the template, a line with
+ * itself, a pair given twice. Paths relative to the correlation list.
+ * @example correlationProblems([{ between: [0, 3], coefficient: 1 }], 2) → [{ path: [0, 'between', 1], message: 'There is no template line 3 …' }]
+ */
+export function correlationProblems(correlations: readonly { between: readonly [number, number] }[], n: number): { path: (string | number)[], message: string }[] {
+  const out: { path: (string | number)[], message: string }[] = []
+  const seen = new Set<string>()
+  correlations.forEach((c, m) => {
+    const [i, j] = c.between
+    for (const [k, x] of [[0, i], [1, j]] as const) {
+      if (x >= n) out.push({ path: [m, 'between', k], message: n ? `There is no template line ${x}: the template has lines 0 to ${n - 1}` : 'The template has no lines to correlate' })
+    }
+    if (i === j) out.push({ path: [m, 'between'], message: 'A correlation is between two different lines' })
+    const key = `${Math.min(i, j)}-${Math.max(i, j)}`
+    if (seen.has(key)) out.push({ path: [m, 'between'], message: `Lines ${i} and ${j} already have a correlation` })
+    seen.add(key)
+  })
+  return out
+}
+
 export const cmcEntrySchema = z
   .object({
     minK: kelvin('minK'),
@@ -73,6 +105,16 @@ const procedureFields = z.object({
   /** r in w = r·U; used by the guard-band and non-binary rules (default 1). */
   guardBandFactor: numberField('guardBandFactor').min(0, 'guardBandFactor cannot be negative').max(10, 'guardBandFactor is at most 10').nullable().optional().default(null),
   template: z.array(templateComponentSchema, { error: 'template is a list of components' }).max(60, 'At most 60 components'),
+  /** Correlated pairs of template lines (indices into `template`); default none. */
+  correlations: z.array(templateCorrelationSchema, { error: 'correlations is a list of { between: [i, j], coefficient }' }).max(200, 'At most 200 correlations').default([]),
+  /**
+   * Whether each point's budget also takes the reference equipment's lines from the registers (source
+   * certificate U and k, emissivity for the band, uniformity, stability; reference thermometer): then the
+   * template holds the instrument-side lines only. Default false (the template is the whole budget).
+   */
+  budgetFromEquipment: z.boolean({ error: 'budgetFromEquipment is true or false' }).default(false),
+  /** m in "aperture ≥ m × spot diameter" (e.g. 2); null: none stated, the spot must only fit. */
+  spotMargin: numberField('Spot margin').min(1, 'The margin is at least 1 (the spot must fit inside the aperture)').max(20, 'The margin is at most 20').nullable().optional().default(null),
   cmc: z.array(cmcEntrySchema, { error: 'cmc is a list of { minK, maxK, expandedUncertaintyK }' }).max(100, 'At most 100 ranges'),
   applicability: applicabilitySchema,
   /** What changed in this version (for the record). */
@@ -80,7 +122,9 @@ const procedureFields = z.object({
 })
 
 /** POST /api/procedures */
-export const procedureCreateSchema = procedureFields
+export const procedureCreateSchema = procedureFields.superRefine((v, ctx) => {
+  for (const p of correlationProblems(v.correlations, v.template.length)) ctx.addIssue({ code: 'custom', path: ['correlations', ...p.path], message: p.message })
+})
 /** The parsed create body. */
 export type ProcedureCreateInput = z.infer<typeof procedureCreateSchema>
 
@@ -91,6 +135,9 @@ export const procedureUpdateSchema = z.object({
   decisionRule: procedureFields.shape.decisionRule.optional(),
   guardBandFactor: numberField('guardBandFactor').min(0).max(10, 'guardBandFactor is at most 10').nullable().optional(),
   template: procedureFields.shape.template.optional(),
+  correlations: z.array(templateCorrelationSchema, { error: 'correlations is a list of { between: [i, j], coefficient }' }).max(200, 'At most 200 correlations').optional(),
+  budgetFromEquipment: z.boolean({ error: 'budgetFromEquipment is true or false' }).optional(),
+  spotMargin: numberField('Spot margin').min(1, 'The margin is at least 1 (the spot must fit inside the aperture)').max(20, 'The margin is at most 20').nullable().optional(),
   cmc: procedureFields.shape.cmc.optional(),
   applicability: applicabilitySchema.optional(),
   changeNote: optionalText(2000),

@@ -23,6 +23,8 @@ const headerFields = z.object({
   ambientTemperatureK: measured(kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K is not a laboratory').max(350, 'An ambient temperature above 350 K is not a laboratory')),
   relativeHumidityPct: measured(numberField('Relative humidity').min(0, 'Relative humidity is 0 to 100 %').max(100, 'Relative humidity is 0 to 100 %')),
   distanceMm: measured(numberField('Measuring distance').positive('The measuring distance is above 0 mm').max(100_000)),
+  /** The spot diameter at the measuring distance, mm, when the maker states one (fixed-focus instruments); null: from the instrument's D:S. */
+  spotDiameterMm: numberField('Spot diameter').positive('The spot diameter is above 0 mm').max(10_000, 'The spot diameter is at most 10000 mm').nullable(),
   emissivitySetting: measured(emissivity('Emissivity setting')),
   reflectedTemperatureK: measured(kelvin('Reflected temperature')),
   instrumentTemperatureK: measured(kelvin("Instrument's own temperature")),
@@ -47,6 +49,7 @@ export const runCreateSchema = headerFields
     ambientTemperatureK: headerFields.shape.ambientTemperatureK.optional().default(null),
     relativeHumidityPct: headerFields.shape.relativeHumidityPct.optional().default(null),
     distanceMm: headerFields.shape.distanceMm.optional().default(null),
+    spotDiameterMm: headerFields.shape.spotDiameterMm.optional().default(null),
     emissivitySetting: headerFields.shape.emissivitySetting.optional().default(null),
     reflectedTemperatureK: headerFields.shape.reflectedTemperatureK.optional().default(null),
     instrumentTemperatureK: headerFields.shape.instrumentTemperatureK.optional().default(null),
@@ -175,6 +178,15 @@ export type RunReturnInput = z.infer<typeof runReturnSchema>
 export const pointMonteCarloSchema = z.object({
   trials: z.number({ error: 'trials must be a number' }).int('trials must be a whole number').min(10_000, 'At least 10000 trials').max(2_000_000, 'At most 2000000 trials').default(200_000),
   seed: z.number({ error: 'seed must be a number' }).int().min(0).max(0xffffffff).default(1),
+  /**
+   * The adaptive procedure of JCGM 101 7.9 instead of a fixed number of trials: batches of 10⁴ trials
+   * until the mean, u and the interval ends are stable to the numerical tolerance of u (n_dig significant
+   * digits, default 2); at most 2 × 10⁶ trials. `true` or `{ significantDigits }`; `trials` is then ignored.
+   */
+  adaptive: z.union([
+    z.boolean({ error: 'adaptive is true, false or { significantDigits }' }),
+    z.object({ significantDigits: z.number({ error: 'significantDigits must be a number' }).int('significantDigits is 1 or 2').min(1, 'significantDigits is 1 or 2').max(2, 'significantDigits is 1 or 2') }, { error: 'adaptive is true, false or { significantDigits }' }),
+  ], { error: 'adaptive is true, false or { significantDigits }' }).optional().default(false),
 })
 export type PointMonteCarloInput = z.infer<typeof pointMonteCarloSchema>
 

@@ -2,6 +2,7 @@
 // responsivity tables, uploads). Dates of calibration and due dates are `YYYY-MM-DD`;
 // timestamps are ISO 8601 date-times.
 import type {
+  CertifiedBasis,
   EquipmentStatus,
   EquipmentType,
   InstrumentKind,
@@ -10,6 +11,7 @@ import type {
   ReferenceKind,
   SourceKind,
   UploadPurpose,
+  WavelengthMediumName,
 } from '../registers/constants'
 import type { AccuracySpec } from '../schemas/instrument'
 import type { AuditEventDTO, OrganizationDTO } from './index'
@@ -87,10 +89,23 @@ export interface BlackbodySourceDTO extends EquipmentCommon {
   emissivityU: number
   emissivityBandLambda1Um: number | null
   emissivityBandLambda2Um: number | null
+  /** Emissivity over wavelength: rows [λ µm, ε, u(ε) k = 1]; null when none is recorded. */
+  emissivityTable: [number, number, number][] | null
   uniformityK: number
   stabilityK: number
   /** Certificate's set-point corrections `[setPointK, correctionK]`, set-points increasing. */
   corrections: [number, number][]
+  /** What the corrected value is: a cavity, surface or radiance temperature. */
+  certifiedBasis: CertifiedBasis
+  /** A radiance temperature's band (µm) and medium of its wavelengths; null otherwise. */
+  certifiedBandLambda1Um: number | null
+  certifiedBandLambda2Um: number | null
+  certifiedBandMedium: WavelengthMediumName | null
+  /** Surroundings' temperature T_w0 when the radiance temperature was certified, K; null otherwise. */
+  certifiedReflectedTemperatureK: number | null
+  /** The certificate's expanded uncertainty U (K) and k; null when not recorded. */
+  certifiedExpandedUncertaintyK: number | null
+  certifiedCoverageFactor: number | null
 }
 
 export interface ReferenceInstrumentDTO extends EquipmentCommon {

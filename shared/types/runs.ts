@@ -2,7 +2,7 @@
  * DTOs of calibration procedures and runs (server/api/procedures, server/api/runs).
  * Temperatures and uncertainties in kelvin unless a field says otherwise.
  */
-import type { SourceKind } from '../registers/constants'
+import type { CertifiedBasis, SourceKind, WavelengthMediumName } from '../registers/constants'
 import type {
   BudgetLineDistribution,
   ComponentType,
@@ -32,6 +32,15 @@ export interface TemplateComponent {
   dof: number | null
 }
 
+/**
+ * A budget line taken from the equipment used (the source's certificate and register entry, the
+ * reference thermometer's calibration), with where its value came from.
+ */
+export interface EquipmentLine extends TemplateComponent {
+  /** Register entry and certificate the value comes from, e.g. 'BB-FP-01, certificate HTS-26-0311'. */
+  origin: string
+}
+
 /** The laboratory's calibration and measurement capability over a temperature range (k = 2). */
 export interface CmcEntry {
   minK: number
@@ -49,6 +58,20 @@ export interface ProcedureVersionDTO {
   /** r in w = r·U (guard-band and non-binary rules); null for simple acceptance. */
   guardBandFactor: number | null
   template: TemplateComponent[]
+  /** Correlated pairs of template components, indices into `template` (GUM 5.2.2); empty: all independent. */
+  correlations: TemplateCorrelation[]
+  /**
+   * True: each point's budget also takes the reference equipment's lines from the registers (the
+   * source's certified U with its k, its emissivity uncertainty for the instrument's band, uniformity,
+   * stability; the reference thermometer's calibration uncertainty), and the template holds the
+   * instrument-side lines. False: the template is the whole budget (versions before migration 0010).
+   */
+  budgetFromEquipment: boolean
+  /**
+   * m in "the source's aperture must be at least m × the instrument's spot diameter"; null: the
+   * procedure states none and the spot must only fit (m = 1).
+   */
+  spotMargin: number | null
   cmc: CmcEntry[]
   /** What the procedure applies to (null: a version from before this was recorded — it cannot be used for new points). */
   applicability: ProcedureApplicability | null
@@ -92,6 +115,8 @@ export interface BudgetLine {
   distribution: BudgetLineDistribution
   /** The stated value in `unit` (for `resolution`: the full step δ; for repeatability: s/√n). */
   value: number
+  /** k of a normal line's expanded uncertainty `value` (u = value/k); absent for other distributions. */
+  coverageFactor?: number | null
   unit: ComponentUnit
   /** u(xᵢ) in the input's unit (K for temperatures and the reading, absolute emissivity for emissivities). */
   standardUncertainty: number
@@ -103,6 +128,11 @@ export interface BudgetLine {
   percent: number
   /** νᵢ; null = infinite. */
   dof: number | null
+  /**
+   * Where the value came from: the procedure (name, document, version), the register entry and
+   * certificate of the equipment, or the point's own readings. Absent in results before engine 1.2.0.
+   */
+  origin?: string
 }
 
 export interface PointBudget {
@@ -152,10 +182,30 @@ export interface TemplateCorrelation {
   coefficient: number
 }
 
-/** How the reference temperature of a point was obtained. */
+/** A band the certified value of a source belongs to (µm; wavelengths in vacuum unless `medium` is 'air'). */
+export interface CertifiedBandInput {
+  kind: 'rectangular'
+  lambda1Um: number
+  lambda2Um: number
+  medium?: WavelengthMediumName
+}
+
+/**
+ * What a source's corrected value is, as the computation used it (shared/registers/constants.ts,
+ * CERTIFIED_BASES). For a radiance temperature: its band b0 and the surroundings' temperature T_w0 when
+ * it was certified.
+ */
+export type ReferenceBasisInput =
+  | { kind: 'cavity-temperature' | 'surface-temperature' }
+  | { kind: 'radiance-temperature', band: CertifiedBandInput, reflectedTemperatureK: number }
+
+/** How the reference temperature of a point was obtained. `basis` absent (results before engine 1.2.0): the value is T_s. */
 export type ReferenceInput =
-  | { kind: 'source-correction', sourceIndicatedK: number, corrections: [number, number][] }
+  | { kind: 'source-correction', sourceIndicatedK: number, corrections: [number, number][], basis?: ReferenceBasisInput }
   | { kind: 'reference-thermometer', referenceReadingK: number }
+
+/** The basis of a point's reference temperature: the source's certified basis, or a reference thermometer's reading. */
+export type ReferenceBasis = CertifiedBasis | 'reference-thermometer'
 
 /** The band as the computation used it. */
 export type BandInput =
@@ -179,8 +229,14 @@ export interface PointComputationInput {
   /** Display resolution δ of the instrument, K. */
   resolutionK: number
   template: TemplateComponent[]
+  /** Where the template comes from (procedure name, document, version), stated on each template line. */
+  templateOrigin?: string
+  /** Lines from the reference equipment used, after the template's (see ProcedureVersionDTO.budgetFromEquipment). */
+  equipmentLines?: EquipmentLine[]
   /** Correlated pairs of template components (indices into `template`); omitted or empty: all independent. */
   correlations?: TemplateCorrelation[]
+  /** What the setup checks found (the source emissivity used for the band, the spot against the aperture), copied into the budget's notes. */
+  setupNotes?: string[]
   cmc: CmcEntry[]
   accuracy: AccuracySpec
   rule: DecisionRuleName
@@ -189,8 +245,15 @@ export interface PointComputationInput {
 
 /** The computed result of one calibration point (shared/calibration/compute.ts returns exactly this). */
 export interface PointResult {
-  /** Reference temperature T_s used, K. */
+  /**
+   * Reference temperature, K: the source's corrected value on its certified basis (a radiance temperature
+   * for a radiance basis), or the reference thermometer's reading.
+   */
   referenceTemperatureK: number
+  /** What the reference temperature is (absent before engine 1.2.0: then it is T_s). */
+  referenceBasis?: ReferenceBasis
+  /** Source temperature T_s in the reading model, K (from T_rad for a radiance basis; else the reference temperature). */
+  sourceTemperatureK?: number
   /** Correction from the source's certificate table, K (null with a reference thermometer). */
   sourceCorrectionK: number | null
   expectedReadingK: number
@@ -223,6 +286,10 @@ export interface PointMonteCarloDTO {
   dHigh: number | null
   /** Remarks on how the budget was mapped to distributions. */
   notes: string[]
+  /** The adaptive procedure of JCGM 101 7.9 when it was asked for: batches run and whether the results stabilised. */
+  adaptive?: { batchTrials: number, batches: number, significantDigits: number, tolerance: number, converged: boolean } | null
+  /** Correlated pairs sampled jointly (JCGM 101 6.4.8): the stated r and the r* of the underlying normals. */
+  correlations?: { between: [number, number], coefficient: number, normalCoefficient: number }[]
   engineVersion: string
   at: string
 }
@@ -271,6 +338,8 @@ export interface RunDTO {
   ambientTemperatureK: number | null
   relativeHumidityPct: number | null
   distanceMm: number | null
+  /** Spot diameter stated for the run at its distance, mm (null: from the instrument's D:S). */
+  spotDiameterMm: number | null
   emissivitySetting: number | null
   reflectedTemperatureK: number | null
   instrumentTemperatureK: number | null

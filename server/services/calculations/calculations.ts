@@ -1,12 +1,16 @@
 /**
  * The calculation API's computations (server/api/calculations/*): each validated input straight to
  * the pure engine in shared/, with its refusals turned into 400s naming the field and an overflow
- * into a 400 naming the input that caused it.
+ * into a 400 naming the input that caused it. Answers that use Planck's law name the radiation
+ * constants used (`constants`, and `c2` in m·K).
  */
 import type { BandRadianceInput, BudgetInput, ConformityCalcInput, ExpectedReadingInput, MonteCarloRequest, TemperatureInput } from '#shared/schemas/calculation'
 import type { SessionUser } from '#shared/types'
-import { bandRadiance } from '#shared/radiometry/planck'
+import { resolveConstants, type RadiationConstantsId } from '#shared/radiometry/constants'
+import { EngineInputError } from '#shared/radiometry/errors'
+import { bandRadiance, type Band } from '#shared/radiometry/planck'
 import { temperatureFromRadiance } from '#shared/radiometry/inversion'
+import { expectedReadingFromRadianceTemperature } from '#shared/radiometry/radianceTemperature'
 import { readingSensitivities } from '#shared/radiometry/reading'
 import { evaluateBudget, type BudgetComponent } from '#shared/uncertainty/budget'
 import { evaluateConformity } from '#shared/uncertainty/conformity'
@@ -14,21 +18,66 @@ import { engine, notFound } from '#server/utils/errors'
 import { findJob, startJob } from './jobs'
 import { gumForReading, runReadingMonteCarlo } from './monteCarlo'
 
-export function bandRadianceOf(input: BandRadianceInput): { radiance: number } {
-  return { radiance: engine(() => bandRadiance(input.band, input.temperatureK), 'temperatureK') }
+/** The constants an answer states: their id and c₂ in m·K. */
+function stated(id: RadiationConstantsId): { constants: RadiationConstantsId, c2: number } {
+  return { constants: id, c2: resolveConstants(id).c2 }
 }
 
-export function temperatureOf(input: TemperatureInput): { temperatureK: number } {
-  return { temperatureK: engine(() => temperatureFromRadiance(input.band, input.radiance), 'radiance') }
+export function bandRadianceOf(input: BandRadianceInput): { radiance: number, constants: RadiationConstantsId, c2: number } {
+  return { radiance: engine(() => bandRadiance(input.band, input.temperatureK, input.constants), 'temperatureK'), ...stated(input.constants) }
 }
 
+export function temperatureOf(input: TemperatureInput): { temperatureK: number, constants: RadiationConstantsId, c2: number } {
+  return { temperatureK: engine(() => temperatureFromRadiance(input.band, input.radiance, { constants: input.constants }), 'radiance'), ...stated(input.constants) }
+}
+
+/** Engine field names of the radiance-temperature basis, as the API spells them. */
+const RADIANCE_FIELDS: Record<string, string> = {
+  radianceTemperatureK: 'sourceRadianceTemperature.temperatureK',
+  certificationReflectedTemperatureK: 'sourceRadianceTemperature.reflectedTemperatureK',
+}
+
+function apiField(field: string): string {
+  if (field.startsWith('radianceTemperatureBand')) return `sourceRadianceTemperature.band${field.slice('radianceTemperatureBand'.length)}`
+  return RADIANCE_FIELDS[field] ?? field
+}
+
+/**
+ * The expected reading with its sensitivities, from the source's temperature T_s or from its certified
+ * radiance temperature (then T_s found first, and stated as `sourceTemperatureK`); the constants used.
+ */
 export function expectedReadingOf(input: ExpectedReadingInput) {
-  const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities(input), 'sourceTemperatureK')
-  return { expectedReadingK, sensitivities }
+  const { band, sourceEmissivity, reflectedTemperatureK, instrumentTemperatureK, emissivitySetting, constants } = input
+  const common = { band: band as Band, sourceEmissivity, reflectedTemperatureK, instrumentTemperatureK, emissivitySetting, constants }
+  const rad = input.sourceRadianceTemperature
+  if (rad) {
+    const r = engine(() => {
+      try {
+        return expectedReadingFromRadianceTemperature({
+          ...common,
+          radianceTemperatureBand: rad.band as Band,
+          radianceTemperatureK: rad.temperatureK,
+          certificationReflectedTemperatureK: rad.reflectedTemperatureK,
+        })
+      }
+      catch (err) {
+        if (err instanceof EngineInputError) {
+          const text = err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message
+          throw new EngineInputError(apiField(err.field), text)
+        }
+        throw err
+      }
+    }, 'sourceRadianceTemperature.temperatureK')
+    return { expectedReadingK: r.expectedReadingK, sensitivities: r.sensitivities, sourceTemperatureK: r.sourceTemperatureK, ...stated(constants) }
+  }
+  const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities({ ...common, sourceTemperatureK: input.sourceTemperatureK! }), 'sourceTemperatureK')
+  return { expectedReadingK, sensitivities, sourceTemperatureK: input.sourceTemperatureK!, ...stated(constants) }
 }
 
+/** A GUM budget, with correlated pairs when given (JCGM 100 5.2.2, eq. (16)). */
 export function budgetOf(input: BudgetInput) {
-  return engine(() => evaluateBudget(input.components, { coverageProbability: input.coverageProbability }), r => budgetOverflowField(input.components, r.contributions))
+  const options = { coverageProbability: input.coverageProbability, ...(input.correlations?.length ? { correlations: input.correlations } : {}) }
+  return engine(() => evaluateBudget(input.components, options), r => budgetOverflowField(input.components, r.contributions))
 }
 
 export function conformityOf(input: ConformityCalcInput) {

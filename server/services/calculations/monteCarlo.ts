@@ -1,15 +1,20 @@
 /**
- * Monte Carlo propagation of distributions through the reading model (JCGM 101), run in a
+ * Monte Carlo propagation of distributions through the reading model (JCGM 101), run in
  * worker threads (one per core) so a 10⁶-trial run never blocks the server, then compared with the GUM
- * result for the same inputs (JCGM 101 §8).
+ * result for the same inputs (JCGM 101 §8). Two callers: the calculator's five reading-model inputs
+ * ({@link runReadingMonteCarlo}) and a stored point's plan ({@link runPlanMonteCarlo}: the point's model
+ * inputs and output terms sampled together, correlated pairs jointly; a fixed number of trials over the
+ * workers, or the adaptive procedure of JCGM 101 7.9 on one worker).
  */
 import { createError } from 'h3'
 import os from 'node:os'
 import { Worker } from 'node:worker_threads'
 import workerCode from '#bandlight/mc-worker'
+import { monteCarloPlanInputs, type McModelSpec, type MonteCarloPlan } from '#shared/calibration/monteCarloPlan'
+import { resolveConstants } from '#shared/radiometry/constants'
 import { expectedReadingK, readingSensitivities } from '#shared/radiometry/reading'
 import { evaluateBudget, type BudgetComponent } from '#shared/uncertainty/budget'
-import { compileInputs, runMonteCarloChunk, splitTrials, summarizeMonteCarlo, validateGumResult, type MonteCarloInput } from '#shared/uncertainty/montecarlo'
+import { compileInputs, splitTrials, summarizeMonteCarlo, validateGumResult, type AdaptiveOptions, type MonteCarloCorrelation, type MonteCarloInput, type MonteCarloResult } from '#shared/uncertainty/montecarlo'
 import type { McDistributionInput, MonteCarloRequest } from '#shared/schemas/calculation'
 import type { McWorkerData } from '#server/workers/readingMonteCarlo'
 import { config } from '#server/utils/config'
@@ -46,6 +51,9 @@ export interface ReadingMonteCarloResult {
   dLow: number | null
   dHigh: number | null
   durationMs: number
+  /** The radiation constants used and their c₂, m·K. */
+  constants: string
+  c2: number
 }
 
 function toEngineInput(name: string, d: McDistributionInput): MonteCarloInput {
@@ -72,7 +80,7 @@ function standardUncertainty(d: McDistributionInput): number {
 /** The GUM (first-order) result for the same inputs, from the analytic sensitivities. */
 export function gumForReading(req: MonteCarloRequest) {
   const at = Object.fromEntries(ORDER.map(k => [k, req.inputs[k].value])) as Record<(typeof ORDER)[number], number>
-  const point = { band: req.band, ...at }
+  const point = { band: req.band, ...at, constants: req.constants }
   const sens = engine(() => readingSensitivities(point))
   const components: BudgetComponent[] = ORDER.map(k => ({
     name: k,
@@ -92,20 +100,22 @@ export function gumForReading(req: MonteCarloRequest) {
   }
 }
 
-function runInWorker(data: McWorkerData, onProgress: (done: number) => void): Promise<Float64Array> {
+type WorkerMessage = { type: 'progress', done: number, total?: number } | { type: 'done', values?: Float64Array, result?: MonteCarloResult } | { type: 'error', field: string | null, message: string }
+
+function runInWorker<T>(data: McWorkerData, onProgress: (done: number, total?: number) => void, take: (msg: { values?: Float64Array, result?: MonteCarloResult }) => T): Promise<T> {
   return new Promise((resolve, reject) => {
     const worker = new Worker(workerCode, { eval: true, workerData: data })
     let settled = false
-    worker.on('message', (msg: { type: string, done?: number, values?: Float64Array, field?: string | null, message?: string }) => {
-      if (msg.type === 'progress') onProgress(msg.done!)
+    worker.on('message', (msg: WorkerMessage) => {
+      if (msg.type === 'progress') onProgress(msg.done, msg.total)
       else if (msg.type === 'done') {
         settled = true
-        resolve(msg.values!)
+        resolve(take(msg))
         void worker.terminate()
       }
       else if (msg.type === 'error') {
         settled = true
-        reject(msg.field ? fieldError(msg.field, msg.message!) : new Error(msg.message))
+        reject(msg.field ? fieldError(msg.field, msg.message) : new Error(msg.message))
         void worker.terminate()
       }
     })
@@ -125,15 +135,15 @@ function workerCount(): number {
 }
 
 /** Run trials [0, M) split over worker threads; the values are the same as one run with the seed. */
-async function runTrials(band: McWorkerData['band'], inputs: MonteCarloInput[], trials: number, seed: number, onProgress?: (done: number, total: number) => void): Promise<Float64Array> {
+async function runTrials(model: McModelSpec, inputs: MonteCarloInput[], correlations: MonteCarloCorrelation[], trials: number, seed: number, onProgress?: (done: number, total: number) => void): Promise<Float64Array> {
   const ranges = splitTrials(trials, workerCount())
   const done = ranges.map(() => 0)
   const chunk = Math.max(8192, Math.ceil(trials / 50))
   const parts = await Promise.all(ranges.map(([start, end], i) =>
-    runInWorker({ band, inputs, start, end, seed, chunk }, (d) => {
+    runInWorker({ mode: 'chunk', model, inputs, correlations, start, end, seed, chunk }, (d) => {
       done[i] = d
       onProgress?.(done.reduce((a, b) => a + b, 0), trials)
-    }),
+    }, msg => msg.values!),
   ))
   const values = new Float64Array(trials)
   ranges.forEach(([start], i) => values.set(parts[i]!, start))
@@ -150,12 +160,12 @@ function fieldError(field: string, message: string) {
   })
 }
 
-/** Run the whole comparison: GUM first (cheap, validates the point), then M trials in a worker. */
+/** Run the whole comparison: GUM first (cheap, validates the point), then M trials in the workers. */
 export async function runReadingMonteCarlo(req: MonteCarloRequest, onProgress?: (done: number, total: number) => void): Promise<ReadingMonteCarloResult> {
   const started = performance.now()
   const gum = gumForReading(req)
   const inputs = ORDER.map(k => toEngineInput(k, req.inputs[k]))
-  const values = await runTrials(req.band, inputs, req.trials, req.seed, onProgress)
+  const values = await runTrials({ kind: 'reading', band: req.band, constants: req.constants }, inputs, [], req.trials, req.seed, onProgress)
   const summary = engine(() => summarizeMonteCarlo(values, req.coverageProbability))
   const check = gum.combinedStandardUncertainty > 0
     ? validateGumResult({ y: gum.expectedReadingK, U: gum.expandedUncertainty, u: gum.combinedStandardUncertainty }, summary.coverageInterval)
@@ -174,66 +184,71 @@ export async function runReadingMonteCarlo(req: MonteCarloRequest, onProgress?: 
     dLow: check.dLow,
     dHigh: check.dHigh,
     durationMs: Math.round(performance.now() - started),
+    constants: req.constants,
+    c2: resolveConstants(req.constants).c2,
   }
 }
 
-/** Explicit distributions for the reading model (a stored calibration point's budget, not an API body). */
-export interface ExplicitReadingMonteCarloRequest {
-  band: McWorkerData['band']
-  /** One distribution for each model input, in its unit (K or emissivity); names are ignored. */
-  inputs: Record<(typeof ORDER)[number], MonteCarloInput>
-  /** Independent terms added to the model output (K), e.g. repeatability and resolution of the reading. */
-  outputTerms: MonteCarloInput[]
+/** How a stored point's plan is run. */
+export interface PlanMonteCarloOptions {
+  /** Trials M of a fixed run (ignored with `adaptive`). */
   trials: number
   seed: number
   coverageProbability: number
-  /** The GUM result to validate (JCGM 101 §8): estimate y, u(y) and U for the same coverage probability. */
-  gum: { y: number, u: number, U: number }
+  /** The adaptive procedure of JCGM 101 7.9 instead of M trials (n_dig of the tolerance, default 2). */
+  adaptive?: AdaptiveOptions | null
 }
 
-export interface ExplicitReadingMonteCarloResult {
+export interface PlanMonteCarloResult {
+  /** Trials run (for an adaptive run: batches × batch size). */
   trials: number
   seed: number
   coverageProbability: number
   mean: number
   standardUncertainty: number
   coverageInterval: [number, number]
+  /** JCGM 101 §8 comparison with the plan's GUM result. */
   validated: boolean
   tolerance: number
   dLow: number | null
   dHigh: number | null
+  adaptive: { batchTrials: number, batches: number, significantDigits: number, tolerance: number, converged: boolean } | null
+  correlations: { between: [number, number], coefficient: number, normalCoefficient: number }[]
   durationMs: number
 }
 
 /**
- * Monte Carlo with explicit input distributions: the five model inputs run through the reading model
- * in the worker threads (same runner as {@link runReadingMonteCarlo}); the output terms are sampled
- * here with an independent seed (they are cheap sums) and added trial by trial; then JCGM 101 §8
- * validation against the given GUM result.
+ * A point's Monte Carlo check from its plan (shared/calibration/monteCarloPlan.ts): the model inputs and
+ * the output terms in the same trials, correlated pairs sampled jointly; then the JCGM 101 §8 comparison
+ * with the GUM result. The inputs are checked here first (a refusal is a 400 before any worker starts).
  */
-export async function runReadingMonteCarloExplicit(req: ExplicitReadingMonteCarloRequest, onProgress?: (done: number, total: number) => void): Promise<ExplicitReadingMonteCarloResult> {
+export async function runPlanMonteCarlo(plan: MonteCarloPlan, options: PlanMonteCarloOptions, onProgress?: (done: number, total: number) => void): Promise<PlanMonteCarloResult> {
   const started = performance.now()
-  const inputs = ORDER.map(k => ({ ...req.inputs[k], name: k }))
-  engine(() => compileInputs(inputs))
-  const values = await runTrials(req.band, inputs, req.trials, req.seed, onProgress)
-  if (req.outputTerms.length) {
-    const compiled = engine(() => compileInputs(req.outputTerms))
-    const n = req.outputTerms.length
-    const sum = (x: Float64Array) => {
-      let s = 0
-      for (let i = 0; i < n; i++) s += x[i]!
-      return s
-    }
-    const extra = runMonteCarloChunk(sum, compiled, (req.seed + 0x5bd1e995) % 0x100000000, 0, req.trials)
-    for (let i = 0; i < values.length; i++) values[i]! += extra[i]!
+  const { inputs, correlations } = monteCarloPlanInputs(plan)
+  const compiled = engine(() => compileInputs(inputs, correlations))
+  const stated = compiled.copula?.pairs.map(q => ({ between: [q.i, q.j] as [number, number], coefficient: q.coefficient, normalCoefficient: q.normalCoefficient })) ?? []
+  let summary: { trials: number, mean: number, standardUncertainty: number, coverageProbability: number, coverageInterval: { low: number, high: number } }
+  let adaptive: PlanMonteCarloResult['adaptive'] = null
+  if (options.adaptive) {
+    const r = await runInWorker<MonteCarloResult>(
+      { mode: 'adaptive', model: plan.model, inputs, correlations, seed: options.seed, coverageProbability: options.coverageProbability, adaptive: options.adaptive },
+      (done, total) => onProgress?.(done, Math.max(total ?? done, done)),
+      msg => msg.result!,
+    )
+    summary = r
+    const a = r.adaptive!
+    adaptive = { batchTrials: a.batchTrials, batches: a.batches, significantDigits: a.significantDigits, tolerance: a.tolerance, converged: a.converged }
   }
-  const summary = engine(() => summarizeMonteCarlo(values, req.coverageProbability))
-  const check = req.gum.u > 0
-    ? validateGumResult({ y: req.gum.y, U: req.gum.U, u: req.gum.u }, summary.coverageInterval)
+  else {
+    const values = await runTrials(plan.model, inputs, correlations, options.trials, options.seed, onProgress)
+    summary = engine(() => summarizeMonteCarlo(values, options.coverageProbability))
+  }
+  const check = plan.gum.u > 0
+    ? validateGumResult({ y: plan.gum.y, U: plan.gum.U, u: plan.gum.u }, summary.coverageInterval)
     : { validated: false, tolerance: 0, dLow: null, dHigh: null }
   return {
     trials: summary.trials,
-    seed: req.seed,
+    seed: options.seed,
     coverageProbability: summary.coverageProbability,
     mean: summary.mean,
     standardUncertainty: summary.standardUncertainty,
@@ -242,6 +257,8 @@ export async function runReadingMonteCarloExplicit(req: ExplicitReadingMonteCarl
     tolerance: check.tolerance,
     dLow: check.dLow,
     dHigh: check.dHigh,
+    adaptive,
+    correlations: stated,
     durationMs: Math.round(performance.now() - started),
   }
 }

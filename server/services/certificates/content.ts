@@ -24,6 +24,7 @@ import { SpectralResponse } from '#server/models/SpectralResponse'
 import { conflict } from '#server/utils/errors'
 import { calibrationsOf } from '#server/services/equipment/calibrations'
 import { agreementOf } from '#server/services/requests/agreement'
+import { basisStatement } from './basis'
 import type { CertificateData, CertificateEquipment } from './pdf'
 
 const lines = (s: string | null | undefined) => (s ?? '').split(/\r?\n/).map(l => l.trim()).filter(Boolean)
@@ -101,12 +102,11 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
   const accuracyText = describeAccuracy(instrument.accuracy)
   const customerAddress = [...lines(organization.addressLines), [organization.postcode, organization.city].filter(Boolean).join(' '), organization.country ?? ''].filter(Boolean)
   const labAddress = [...lines(settings.addressLines), [settings.postcode, settings.city].filter(Boolean).join(' '), settings.country].filter(Boolean)
-  const viaReference = points.some(p => p.referenceInstrumentId !== null)
-  const viaSource = points.some(p => p.referenceInstrumentId === null)
-  const referenceBasis = [
-    viaSource ? 'The reference temperature is the source’s indicated temperature with the correction its calibration certificate states.' : '',
-    viaReference ? 'Where a reference thermometer is listed, the reference temperature is its reading.' : '',
-  ].filter(Boolean).join(' ')
+  const referenceBasis = sources.map((s) => {
+    const own = points.filter(p => p.sourceId === s.id)
+    const tags = [...new Set(own.map(p => p.referenceInstrumentId).filter((v): v is number => v !== null))].map(id => refs.find(r => r.id === id)?.assetTag ?? `#${id}`)
+    return basisStatement(s, own.map(p => p.result), tags)
+  }).join(' ')
   return {
     run,
     instrument,
@@ -166,6 +166,7 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
         toleranceK: p.result.conformity.tolerance,
         acceptanceLimitK: p.result.conformity.acceptanceLimit,
         verdict: p.result.conformity.verdict,
+        probabilityOfConformity: p.result.conformity.probabilityOfConformity ?? null,
       })),
       coverageProbability: first.budget.coverageProbability ?? COVERAGE_PROBABILITY,
       equipment,

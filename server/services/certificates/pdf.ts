@@ -37,6 +37,11 @@ export interface CertificatePoint {
   /** TL − w, K. */
   acceptanceLimitK: number
   verdict: Verdict
+  /**
+   * Probability that the error lies within ±TL (JCGM 106:2012, 7.4; normal PDF with u = U/k), stated
+   * beside the verdict; null for results computed before it was recorded.
+   */
+  probabilityOfConformity?: number | null
 }
 
 export interface CertificateEquipment {
@@ -92,7 +97,7 @@ export interface CertificateData {
   place: { kind: 'laboratory' | 'on-site', addressLines: string[] }
   /** Deviations from the method, as recorded; null when none was recorded. */
   methodDeviations: string | null
-  /** What the "reference temperature" of the results is (its basis). */
+  /** What the "reference temperature" of the results is (its basis, per source) and the source emissivity ε_s used. */
   referenceBasis: string
   method: { procedureName: string, documentReference: string, versionNumber: number }
   dates: { received: string, calibrated: string, issued: string }
@@ -659,6 +664,13 @@ export function overallConformity(d: Pick<CertificateData, 'adjusted' | 'points'
   return { basis, worst }
 }
 
+/** A probability of conformity as the certificate prints it: one decimal of a percent, never 0 % or 100 %. */
+export function probabilityText(p: number): string {
+  if (p >= 0.9995) return 'above 99.9 %'
+  if (p <= 0.0005) return 'below 0.1 %'
+  return `${formatFixed(p * 100, 1)} %`
+}
+
 function conformityBlock(w: Writer, d: CertificateData): void {
   w.heading('Statement of conformity', 70)
   const a = d.agreement
@@ -677,9 +689,11 @@ function conformityBlock(w: Writer, d: CertificateData): void {
   }[worst]
   const per = basis.map((p) => {
     const dec = Math.max(1, decimalsOf(p.uncertaintyText))
-    return `${celsius(p.referenceK, dec)} °C: ${VERDICT_TEXT[p.verdict].toLowerCase()}`
+    const pc = p.probabilityOfConformity == null ? '' : ` (probability of conformity ${probabilityText(p.probabilityOfConformity)})`
+    return `${celsius(p.referenceK, dec)} °C: ${VERDICT_TEXT[p.verdict].toLowerCase()}${pc}`
   }).join('; ')
-  w.paragraph(`The instrument ${d.adjusted ? 'as left ' : ''}${summary}. Verdict per point — ${per}.`)
+  const withProbability = basis.some(p => p.probabilityOfConformity != null)
+  w.paragraph(`The instrument ${d.adjusted ? 'as left ' : ''}${summary}. Verdict per point — ${per}.${withProbability ? ' The probability of conformity is that of the error lying within the tolerance for a normal distribution with the standard uncertainty U/k (JCGM 106:2012).' : ''}`)
 }
 
 /** The height the closing (remarks, statements, signature) needs, so it is never left alone on a page. */

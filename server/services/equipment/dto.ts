@@ -53,9 +53,17 @@ export function sourceDTO(s: BlackbodySource, latest: EquipmentCalibration | und
     emissivityU: s.emissivityU,
     emissivityBandLambda1Um: s.emissivityBandLambda1Um ?? null,
     emissivityBandLambda2Um: s.emissivityBandLambda2Um ?? null,
+    emissivityTable: s.emissivityTable ?? null,
     uniformityK: s.uniformityK,
     stabilityK: s.stabilityK,
     corrections: s.corrections ?? [],
+    certifiedBasis: s.certifiedBasis,
+    certifiedBandLambda1Um: s.certifiedBandLambda1Um ?? null,
+    certifiedBandLambda2Um: s.certifiedBandLambda2Um ?? null,
+    certifiedBandMedium: s.certifiedBandMedium ?? null,
+    certifiedReflectedTemperatureK: s.certifiedReflectedTemperatureK ?? null,
+    certifiedExpandedUncertaintyK: s.certifiedExpandedUncertaintyK ?? null,
+    certifiedCoverageFactor: s.certifiedCoverageFactor ?? null,
   }
 }
 

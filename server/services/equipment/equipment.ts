@@ -46,8 +46,9 @@ export interface EquipmentRegister<R extends EquipmentRow, D> {
 const SOURCE_IMPORT: CsvColumns = {
   assetTag: 'text', kind: 'text', maker: 'text', model: 'text', serial: 'text', apertureMm: 'number',
   minTemperatureK: 'number', maxTemperatureK: 'number', emissivity: 'number', emissivityU: 'number',
-  emissivityBandLambda1Um: 'number', emissivityBandLambda2Um: 'number', uniformityK: 'number', stabilityK: 'number',
-  corrections: 'json', status: 'text', notes: 'text',
+  emissivityBandLambda1Um: 'number', emissivityBandLambda2Um: 'number', emissivityTable: 'json', uniformityK: 'number', stabilityK: 'number',
+  corrections: 'json', certifiedBasis: 'text', certifiedBandLambda1Um: 'number', certifiedBandLambda2Um: 'number', certifiedBandMedium: 'text',
+  certifiedReflectedTemperatureK: 'number', certifiedExpandedUncertaintyK: 'number', certifiedCoverageFactor: 'number', status: 'text', notes: 'text',
 }
 const REFERENCE_IMPORT: CsvColumns = {
   assetTag: 'text', kind: 'text', maker: 'text', model: 'text', serial: 'text', rangeMin: 'number', rangeMax: 'number',

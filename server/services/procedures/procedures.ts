@@ -8,7 +8,9 @@ import type { ProcedureDTO, ProcedureDetailDTO, ProcedureVersionDTO, TemplateCom
 import { Procedure } from '#server/models/Procedure'
 import { ProcedureVersion } from '#server/models/ProcedureVersion'
 import { User } from '#server/models/User'
-import { notFound, assertVersion } from '#server/utils/errors'
+import { correlationProblems } from '#shared/schemas/procedure'
+import { fieldName } from '#shared/schemas/errors'
+import { notFound, assertVersion, invalidInput } from '#server/utils/errors'
 import { recordAudit, snapshot } from '#server/utils/audit'
 import { auditTrail } from '#server/services/audit/trail'
 import { inTransaction } from '#server/utils/transaction'
@@ -23,6 +25,9 @@ export function procedureVersionDTO(v: ProcedureVersion, userName: string | null
     decisionRule: v.decisionRule,
     guardBandFactor: v.guardBandFactor ?? null,
     template: v.template ?? [],
+    correlations: v.correlations ?? [],
+    budgetFromEquipment: !!v.budgetFromEquipment,
+    spotMargin: v.spotMargin ?? null,
     cmc: v.cmc ?? [],
     applicability: v.applicability ?? null,
     changeNote: v.changeNote ?? null,
@@ -67,6 +72,9 @@ export async function createProcedureIn(t: Transaction, userId: number | null, i
     decisionRule: input.decisionRule,
     guardBandFactor: input.decisionRule === 'simple-acceptance' ? null : (input.guardBandFactor ?? 1),
     template: normalizeTemplate(input.template),
+    correlations: input.correlations,
+    budgetFromEquipment: input.budgetFromEquipment,
+    spotMargin: input.spotMargin ?? null,
     cmc: input.cmc,
     applicability: input.applicability,
     changeNote: input.changeNote ?? null,
@@ -88,6 +96,10 @@ export async function updateProcedureIn(t: Transaction, userId: number, id: numb
   if (!current) notFound('procedure version')
   const rule = input.decisionRule ?? current.decisionRule
   const r = input.guardBandFactor !== undefined ? input.guardBandFactor : current.guardBandFactor
+  const template = input.template ? normalizeTemplate(input.template) : current.template
+  const correlations = input.correlations ?? current.correlations ?? []
+  const problems = correlationProblems(correlations, template.length)
+  if (problems.length) invalidInput(Object.fromEntries(problems.map(p => [fieldName(['correlations', ...p.path]), input.correlations ? p.message : `${p.message} (the correlations of the current version no longer fit the new template: state them again)`])))
   const next = await ProcedureVersion.create({
     procedureId: p.id,
     versionNumber: current.versionNumber + 1,
@@ -95,7 +107,10 @@ export async function updateProcedureIn(t: Transaction, userId: number, id: numb
     documentReference: input.documentReference ?? current.documentReference,
     decisionRule: rule,
     guardBandFactor: rule === 'simple-acceptance' ? null : (r ?? 1),
-    template: input.template ? normalizeTemplate(input.template) : current.template,
+    template,
+    correlations,
+    budgetFromEquipment: input.budgetFromEquipment ?? !!current.budgetFromEquipment,
+    spotMargin: input.spotMargin !== undefined ? input.spotMargin : current.spotMargin ?? null,
     cmc: input.cmc ?? current.cmc,
     applicability: input.applicability ?? current.applicability,
     changeNote: input.changeNote ?? null,

@@ -222,6 +222,7 @@ export async function acceptRequestIn(t: Transaction, user: SessionUser, id: num
       relativeHumidityPct: null,
       // Measured when the run is performed (the agreed distance is shown beside it as the target).
       distanceMm: null,
+      spotDiameterMm: null,
       emissivitySetting: terms.emissivitySetting,
       reflectedTemperatureK: null,
       instrumentTemperatureK: null,

@@ -2,18 +2,24 @@
  * What the points of a run are computed with, and the checks before a point is computed: the
  * instrument, its band, the procedure version and the terms agreed with the customer; the
  * reference equipment usable on the calibration date; the procedure fitting the source, the
- * instrument's band and the temperature; the measured conditions the reading model needs.
- * Everything a point states comes from these records — never from a default.
+ * instrument's band and the temperature; the source fitting the instrument (its emissivity known in
+ * the instrument's band, the spot inside its aperture with the procedure's margin); the measured
+ * conditions the reading model needs. Everything a point states comes from these records — never
+ * from a default: the basis of the source's certified value and its uncertainty come from the source's
+ * certified data, each budget line names the register entry and certificate or the procedure version
+ * it came from.
  */
 import type { Transaction } from 'sequelize'
 import { COMPUTATION_CONDITIONS, CONDITION_LABELS, type PointStage } from '#shared/calibration/constants'
 import { computePoint } from '#shared/calibration/compute'
+import { emissivityForBand, spotFit, spotProblem, type BandEmissivity } from '#shared/calibration/setup'
 import { kelvinToCelsiusText } from '#shared/format'
-import { SOURCE_KIND_LABELS } from '#shared/registers/constants'
+import { CERTIFIED_BASIS_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
 import type { PointCreateInput } from '#shared/schemas/run'
-import type { BandInput, PointComputationInput, PointResult, RunAgreementDTO } from '#shared/types'
+import type { BandInput, EquipmentLine, PointComputationInput, PointResult, ReferenceBasisInput, RunAgreementDTO } from '#shared/types'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import type { CalibrationRun } from '#server/models/CalibrationRun'
+import { EquipmentCalibration } from '#server/models/EquipmentCalibration'
 import { Instrument } from '#server/models/Instrument'
 import { ProcedureVersion } from '#server/models/ProcedureVersion'
 import { ReferenceInstrument } from '#server/models/ReferenceInstrument'
@@ -88,27 +94,139 @@ export function assertComputable(run: CalibrationRun): void {
   }
 }
 
+/** The reference equipment of a point with the certificates in force on the run's date (for the budget lines' origins). */
+export interface UsedEquipment {
+  /** Number of the source's calibration certificate in force, or null when none is recorded. */
+  sourceCertificate: string | null
+  /** The point's reference thermometer and its certificate in force; null for a point on the source's correction. */
+  reference: { row: ReferenceInstrument, certificate: string | null } | null
+}
+
+/** How a budget line names where its value came from. */
+function originOf(tag: string, certificate: string | null, what: string): string {
+  return `${tag} ${what}${certificate ? `, certificate ${certificate}` : ', no certificate recorded'}`
+}
+
+/** The procedure version as a template line's origin: name, document, version. */
+export function procedureOrigin(pv: ProcedureVersion): string {
+  return `Procedure ${pv.name} (${pv.documentReference}), version ${pv.versionNumber}`
+}
+
+/** The basis of a source's corrected value, as the computation takes it (its band and T_w0 for a radiance temperature). */
+export function sourceBasis(source: BlackbodySource): ReferenceBasisInput {
+  if (source.certifiedBasis !== 'radiance-temperature') return { kind: source.certifiedBasis ?? 'surface-temperature' }
+  const l1 = source.certifiedBandLambda1Um
+  const l2 = source.certifiedBandLambda2Um
+  const tw0 = source.certifiedReflectedTemperatureK
+  if (l1 == null || l2 == null || tw0 == null) {
+    invalidInput({ sourceId: `${source.assetTag}’s certificate states radiance temperatures, but the register lacks their band or the surroundings’ temperature at calibration: enter them from the certificate` })
+  }
+  return { kind: 'radiance-temperature', band: { kind: 'rectangular', lambda1Um: l1, lambda2Um: l2, ...(source.certifiedBandMedium === 'air' ? { medium: 'air' as const } : {}) }, reflectedTemperatureK: tw0 }
+}
+
+/** A source's emissivity statement as the register holds it. */
+function emissivityStatement(source: BlackbodySource) {
+  return {
+    emissivity: source.emissivity,
+    emissivityU: source.emissivityU,
+    emissivityBandLambda1Um: source.emissivityBandLambda1Um ?? null,
+    emissivityBandLambda2Um: source.emissivityBandLambda2Um ?? null,
+    emissivityTable: source.emissivityTable ?? null,
+  }
+}
+
+/** The source's emissivity in the instrument's band; 400 on `sourceId` naming the numbers when none is recorded for it. */
+export function bandEmissivity(source: BlackbodySource, band: BandInput): BandEmissivity {
+  const e = emissivityForBand(emissivityStatement(source), band, source.assetTag)
+  if ('problem' in e) invalidInput({ sourceId: e.problem })
+  return e
+}
+
+/**
+ * The budget lines of the reference equipment used (see ProcedureVersion.budgetFromEquipment): the
+ * source's certified U with its k on its reference value (or the reference thermometer's calibration
+ * uncertainty, k = 1, for a point read with one), the source's emissivity uncertainty for the band (k = 1),
+ * its uniformity and stability (half-widths of rectangular distributions, as the register's form states
+ * them: "half-width of the variation"). Each names the register entry and certificate it came from.
+ */
+export function equipmentLinesFor(source: BlackbodySource, used: UsedEquipment, basis: ReferenceBasisInput | null, emissivity: BandEmissivity): EquipmentLine[] {
+  const tag = source.assetTag
+  const radiance = basis?.kind === 'radiance-temperature'
+  const onValue = radiance ? 'radianceTemperature' as const : 'sourceTemperature' as const
+  const lines: EquipmentLine[] = []
+  if (used.reference) {
+    const r = used.reference.row
+    lines.push({ name: `Reference thermometer ${r.assetTag} (calibration, k = 1)`, type: 'B', distribution: 'standard', value: r.standardUncertainty, coverageFactor: null, unit: 'K', input: 'sourceTemperature', dof: null, origin: originOf(r.assetTag, used.reference.certificate, 'register (standard uncertainty)') })
+  }
+  else {
+    const U = source.certifiedExpandedUncertaintyK
+    const k = source.certifiedCoverageFactor
+    if (U == null || k == null) invalidInput({ sourceId: `${tag}’s certified expanded uncertainty U and its k are not recorded: enter them from its certificate (the procedure takes the source’s uncertainty from the register)` })
+    lines.push({ name: `Certified value of ${tag} (${CERTIFIED_BASIS_LABELS[basis?.kind ?? source.certifiedBasis].toLowerCase()})`, type: 'B', distribution: 'normal', value: U, coverageFactor: k, unit: 'K', input: onValue, dof: null, origin: originOf(tag, used.sourceCertificate, `certified data (U = ${U} K, k = ${k})`) })
+  }
+  lines.push({ name: `Emissivity of ${tag} in the instrument’s band`, type: 'B', distribution: 'standard', value: emissivity.standardUncertainty, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity', dof: null, origin: originOf(tag, used.sourceCertificate, `register: ${emissivity.text}`) })
+  const onSource = used.reference ? 'sourceTemperature' as const : onValue
+  lines.push({ name: `Uniformity of ${tag}`, type: 'B', distribution: 'rectangular', value: source.uniformityK, coverageFactor: null, unit: 'K', input: onSource, dof: null, origin: originOf(tag, used.sourceCertificate, `register (uniformity ± ${source.uniformityK} K)`) })
+  lines.push({ name: `Stability of ${tag}`, type: 'B', distribution: 'rectangular', value: source.stabilityK, coverageFactor: null, unit: 'K', input: onSource, dof: null, origin: originOf(tag, used.sourceCertificate, `register (stability ± ${source.stabilityK} K)`) })
+  return lines
+}
+
+/** The spot against the source's aperture at the run's distance, with the procedure's margin (shared/calibration/setup.ts). */
+function spotOf(run: CalibrationRun, ctx: RunContext, source: BlackbodySource) {
+  return spotFit({
+    apertureMm: source.apertureMm,
+    distanceMm: run.distanceMm ?? null,
+    distanceToSpot: ctx.instrument.distanceToSpot ?? null,
+    spotDiameterMm: run.spotDiameterMm ?? null,
+    margin: ctx.procedureVersion.spotMargin ?? null,
+  })
+}
+
+/** What the setup checks found, for the budget's notes (the emissivity used; the spot against the aperture). */
+function setupNotes(run: CalibrationRun, ctx: RunContext, source: BlackbodySource, emissivity: BandEmissivity): string[] {
+  const fit = spotOf(run, ctx, source)
+  const spot = fit.spotDiameterMm === null
+    ? `The instrument’s spot was not checked against ${source.assetTag}’s ${source.apertureMm} mm aperture: ${ctx.instrument.distanceToSpot == null ? 'the instrument states no distance-to-spot ratio and the run no spot diameter' : 'the measuring distance is not entered'}.`
+    : `Spot ${fit.spotDiameterMm.toFixed(1)} mm (${fit.how}) within ${source.assetTag}’s ${source.apertureMm} mm aperture (${fit.margin === 1 ? 'the procedure states no margin: the spot must fit' : `procedure margin ${fit.margin}: at least ${fit.requiredApertureMm!.toFixed(1)} mm`}).`
+  return [`Source emissivity ${emissivity.text} (${source.assetTag}).`, spot]
+}
+
 /**
  * The computation's input for one point of a run: the agreed terms' decision rule and specification
  * when an agreement is on record (and still stands), the procedure's rule and the instrument's
- * specification otherwise.
+ * specification otherwise; the source's corrected value on its certified basis; its emissivity for the
+ * instrument's band; and, when the procedure takes them, the reference equipment's budget lines.
+ * @param used - the reference equipment with its certificates ({@link usedEquipment}); needed when the
+ *   procedure's budget takes the equipment's lines
  */
-export function computationInput(run: CalibrationRun, ctx: RunContext, obs: Observation, source: BlackbodySource): PointComputationInput {
+export function computationInput(run: CalibrationRun, ctx: RunContext, obs: Observation, source: BlackbodySource, used?: UsedEquipment): PointComputationInput {
   const pv = ctx.procedureVersion
   const agreed = ctx.agreement?.current ? ctx.agreement : null
   const rule = agreed ? agreed.decisionRule : pv.decisionRule
+  const viaSource = obs.referenceInstrumentId == null
+  const basis = viaSource ? sourceBasis(source) : null
+  const emissivity = bandEmissivity(source, ctx.band)
+  let equipmentLines: EquipmentLine[] | undefined
+  if (pv.budgetFromEquipment) {
+    if (!used) throw new Error('computationInput: the procedure takes the equipment’s budget lines; pass the equipment used')
+    equipmentLines = equipmentLinesFor(source, used, basis, emissivity)
+  }
   return {
     band: ctx.band,
-    reference: obs.referenceInstrumentId != null
-      ? { kind: 'reference-thermometer', referenceReadingK: obs.referenceReadingK! }
-      : { kind: 'source-correction', sourceIndicatedK: obs.sourceIndicatedK!, corrections: source.corrections ?? [] },
-    sourceEmissivity: source.emissivity,
+    reference: viaSource
+      ? { kind: 'source-correction', sourceIndicatedK: obs.sourceIndicatedK!, corrections: source.corrections ?? [], basis: basis! }
+      : { kind: 'reference-thermometer', referenceReadingK: obs.referenceReadingK! },
+    sourceEmissivity: emissivity.emissivity,
     reflectedTemperatureK: run.reflectedTemperatureK!,
     instrumentTemperatureK: run.instrumentTemperatureK!,
     emissivitySetting: run.emissivitySetting!,
     readingsK: [...obs.readingsK],
     resolutionK: ctx.instrument.resolutionK,
     template: pv.template,
+    templateOrigin: procedureOrigin(pv),
+    ...(equipmentLines ? { equipmentLines } : {}),
+    ...(pv.correlations?.length ? { correlations: pv.correlations } : {}),
+    setupNotes: setupNotes(run, ctx, source, emissivity),
     cmc: pv.cmc,
     accuracy: agreed?.specification ?? ctx.instrument.accuracy,
     rule,
@@ -143,32 +261,50 @@ export function pointRecord(p: RunPoint) {
   }
 }
 
+/** One piece of reference equipment as an operation found it: the record, why it cannot be used (or null), its certificate in force. */
+export interface EquipmentHit<R> { row: R | null, reason: string | null, certificate: string | null }
+
 /** The reference equipment of an operation, loaded and checked once each. */
 export class Equipment {
-  private sources = new Map<number, { row: BlackbodySource | null, reason: string | null }>()
-  private refs = new Map<number, { row: ReferenceInstrument | null, reason: string | null }>()
+  private sources = new Map<number, EquipmentHit<BlackbodySource>>()
+  private refs = new Map<number, EquipmentHit<ReferenceInstrument>>()
   constructor(private readonly t: Transaction | undefined, private readonly date: string) {}
 
-  async source(id: number): Promise<{ row: BlackbodySource | null, reason: string | null }> {
+  /** The number of the calibration certificate in force on the date (the latest on or before it). */
+  private async certificateOf(equipmentType: 'source' | 'reference', equipmentId: number): Promise<string | null> {
+    const rows = await EquipmentCalibration.findAll({ where: { equipmentType, equipmentId }, attributes: ['calibrationDate', 'certificateNumber', 'id'], order: [['calibrationDate', 'DESC'], ['id', 'DESC']], transaction: this.t })
+    return rows.find(c => c.calibrationDate <= this.date)?.certificateNumber ?? null
+  }
+
+  async source(id: number): Promise<EquipmentHit<BlackbodySource>> {
     let hit = this.sources.get(id)
     if (!hit) {
       const row = await BlackbodySource.findByPk(id, { transaction: this.t })
-      hit = row ? { row, reason: await assertUsableOn(row, this.date, this.t) } : { row: null, reason: 'No blackbody source with this id' }
+      hit = row
+        ? { row, reason: await assertUsableOn(row, this.date, this.t), certificate: await this.certificateOf('source', id) }
+        : { row: null, reason: 'No blackbody source with this id', certificate: null }
       this.sources.set(id, hit)
     }
     return hit
   }
 
-  async reference(id: number): Promise<{ row: ReferenceInstrument | null, reason: string | null }> {
+  async reference(id: number): Promise<EquipmentHit<ReferenceInstrument>> {
     let hit = this.refs.get(id)
     if (!hit) {
       const row = await ReferenceInstrument.findByPk(id, { transaction: this.t })
-      if (!row) hit = { row: null, reason: 'No reference instrument with this id' }
-      else if (row.rangeUnit !== 'K') hit = { row, reason: `${row.assetTag} does not measure temperature` }
-      else hit = { row, reason: await assertUsableOn(row, this.date, this.t) }
+      if (!row) hit = { row: null, reason: 'No reference instrument with this id', certificate: null }
+      else if (row.rangeUnit !== 'K') hit = { row, reason: `${row.assetTag} does not measure temperature`, certificate: null }
+      else hit = { row, reason: await assertUsableOn(row, this.date, this.t), certificate: await this.certificateOf('reference', id) }
       this.refs.set(id, hit)
     }
     return hit
+  }
+
+  /** The equipment of a point with its certificates (for {@link computationInput}). */
+  async used(obs: Observation): Promise<UsedEquipment> {
+    const s = await this.source(obs.sourceId)
+    const r = obs.referenceInstrumentId != null ? await this.reference(obs.referenceInstrumentId) : null
+    return { sourceCertificate: s.certificate, reference: r?.row ? { row: r.row, certificate: r.certificate } : null }
   }
 }
 
@@ -212,6 +348,38 @@ export async function setupProblem(run: CalibrationRun, ctx: RunContext, eq: Equ
     if (!r.row) return { field: 'referenceInstrumentId', message: r.reason! }
     if (r.reason) return { field: 'referenceInstrumentId', message: refusal(r.row.assetTag, run.calibrationDate, r.reason) }
   }
+  return fitProblem(run, ctx, s.row, obs)
+}
+
+/**
+ * Whether the source fits the instrument and the procedure (shared/calibration/setup.ts): its emissivity
+ * is known in the instrument's band; the spot fits inside its aperture with the procedure's margin (a
+ * procedure that states a margin needs the distance, or a stated spot, to check it); its certified data
+ * are complete for the basis and, when the procedure takes them, for the budget.
+ */
+export function fitProblem(run: CalibrationRun, ctx: RunContext, source: BlackbodySource, obs: Pick<Observation, 'referenceInstrumentId'>): SetupProblem | null {
+  const pv = ctx.procedureVersion
+  const e = emissivityForBand(emissivityStatement(source), ctx.band, source.assetTag)
+  if ('problem' in e) return { field: 'sourceId', message: e.problem }
+  const fit = spotOf(run, ctx, source)
+  const spot = spotProblem(fit, source.apertureMm, source.assetTag, `${pv.name} (version ${pv.versionNumber})`)
+  if (spot) return { field: 'sourceId', message: spot }
+  if (fit.fits === null && pv.spotMargin != null) {
+    const field = ctx.instrument.distanceToSpot != null && run.distanceMm == null ? 'distanceMm' : 'spotDiameterMm'
+    return {
+      field,
+      message: field === 'distanceMm'
+        ? `Procedure ${pv.name} checks the instrument’s spot against the source’s aperture: enter the measuring distance (the instrument’s distance-to-spot ratio is ${ctx.instrument.distanceToSpot}:1)`
+        : `Procedure ${pv.name} checks the instrument’s spot against the source’s aperture, and the instrument states no distance-to-spot ratio: enter the spot diameter at the measuring distance`,
+    }
+  }
+  if (obs.referenceInstrumentId == null && source.certifiedBasis === 'radiance-temperature'
+    && (source.certifiedBandLambda1Um == null || source.certifiedBandLambda2Um == null || source.certifiedReflectedTemperatureK == null)) {
+    return { field: 'sourceId', message: `${source.assetTag}’s certificate states radiance temperatures, but the register lacks their band or the surroundings’ temperature at calibration: enter them from the certificate` }
+  }
+  if (pv.budgetFromEquipment && obs.referenceInstrumentId == null && (source.certifiedExpandedUncertaintyK == null || source.certifiedCoverageFactor == null)) {
+    return { field: 'sourceId', message: `${source.assetTag}’s certified expanded uncertainty U and its k are not recorded: enter them from its certificate (procedure ${pv.name} takes the source’s uncertainty from the register)` }
+  }
   return null
 }
 
@@ -220,5 +388,6 @@ export async function evaluateObservation(run: CalibrationRun, ctx: RunContext, 
   const problem = await setupProblem(run, ctx, eq, obs)
   if (problem) invalidInput({ [problem.field]: problem.message })
   const source = (await eq.source(obs.sourceId)).row!
-  return engine(() => computePoint(computationInput(run, ctx, obs, source)))
+  const used = await eq.used(obs)
+  return engine(() => computePoint(computationInput(run, ctx, obs, source, used)))
 }

@@ -39,6 +39,7 @@ export function runDTO(r: CalibrationRun, n: RunNames = {}): RunDTO {
     ambientTemperatureK: r.ambientTemperatureK,
     relativeHumidityPct: r.relativeHumidityPct,
     distanceMm: r.distanceMm,
+    spotDiameterMm: r.spotDiameterMm ?? null,
     emissivitySetting: r.emissivitySetting,
     reflectedTemperatureK: r.reflectedTemperatureK,
     instrumentTemperatureK: r.instrumentTemperatureK,

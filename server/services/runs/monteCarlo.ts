@@ -1,19 +1,22 @@
 /**
  * Monte Carlo check (JCGM 101) of a stored calibration point, as a progress job: the point's budget
- * becomes input distributions (shared/calibration/monteCarloPlan.ts), the trials run in the worker
- * threads of ./monteCarlo, and the summary is stored on the point when the job ends.
+ * becomes input distributions (shared/calibration/monteCarloPlan.ts: Type B lines from their stated
+ * distributions, correlated pairs sampled jointly), the trials run in the worker threads of
+ * server/services/calculations/monteCarlo.ts — a fixed number, or the adaptive procedure of JCGM 101
+ * 7.9 with the count reported — and the summary with its §8 comparison is stored on the point.
  */
 import { COVERAGE_PROBABILITY } from '#shared/calibration/constants'
-import { monteCarloPlan } from '#shared/calibration/monteCarloPlan'
+import { monteCarloPlan, monteCarloPlanInputs } from '#shared/calibration/monteCarloPlan'
+import { compileInputs } from '#shared/uncertainty/montecarlo'
 import { ENGINE_VERSION } from '#shared/engine'
 import type { PointMonteCarloInput } from '#shared/schemas/run'
 import type { PointMonteCarloDTO, SessionUser } from '#shared/types'
 import { CalibrationRun } from '#server/models/CalibrationRun'
 import { RunPoint } from '#server/models/RunPoint'
-import { notFound } from '#server/utils/errors'
+import { engine, notFound } from '#server/utils/errors'
 import { recordAudit } from '#server/utils/audit'
 import { startJob, type Job } from '#server/services/calculations/jobs'
-import { runReadingMonteCarloExplicit } from '#server/services/calculations/monteCarlo'
+import { runPlanMonteCarlo } from '#server/services/calculations/monteCarlo'
 import { assertNotLocked } from './workflow'
 import { inTransaction } from '#server/utils/transaction'
 
@@ -25,17 +28,16 @@ export async function startPointMonteCarlo(user: SessionUser, runId: number, poi
   const point = await RunPoint.findOne({ where: { id: pointId, runId } })
   if (!point) notFound('point')
   const plan = monteCarloPlan(point.result)
+  // a plan the sampler refuses (e.g. a correlation two distributions cannot reach) is a 400 now, not a failed job
+  engine(() => {
+    const { inputs, correlations } = monteCarloPlanInputs(plan)
+    return compileInputs(inputs, correlations).kind.length
+  })
   const version = point.version
-  return startJob(user.id, input.trials, async (progress) => {
-    const r = await runReadingMonteCarloExplicit({
-      band: point.result.inputs.band,
-      inputs: plan.inputs,
-      outputTerms: plan.outputTerms,
-      trials: input.trials,
-      seed: input.seed,
-      coverageProbability: COVERAGE_PROBABILITY,
-      gum: plan.gum,
-    }, progress)
+  // JCGM 101 7.9: batches of max(J, 10⁴) trials (J = ⌈100/(1 − p)⌉ = 2198 at p = 95.45 %), at most 2 × 10⁶
+  const adaptive = input.adaptive ? { significantDigits: input.adaptive === true ? 2 : input.adaptive.significantDigits, maxTrials: 2_000_000 } : null
+  return startJob(user.id, adaptive ? adaptive.maxTrials : input.trials, async (progress) => {
+    const r = await runPlanMonteCarlo(plan, { trials: input.trials, seed: input.seed, coverageProbability: COVERAGE_PROBABILITY, adaptive }, progress)
     const summary: PointMonteCarloDTO = {
       trials: r.trials,
       seed: r.seed,
@@ -48,6 +50,8 @@ export async function startPointMonteCarlo(user: SessionUser, runId: number, poi
       dLow: r.dLow,
       dHigh: r.dHigh,
       notes: plan.notes,
+      adaptive: r.adaptive,
+      correlations: r.correlations,
       engineVersion: ENGINE_VERSION,
       at: new Date().toISOString(),
     }

@@ -203,7 +203,9 @@ export async function importPointsIn(t: Transaction, actor: Actor, runId: number
       if (problem) errors[csvField(problem.field)] = problem.message
       else {
         try {
-          const result = computePoint(computationInput(run, ctx, obs, (await eq.source(obs.sourceId)).row!))
+          const source = (await eq.source(obs.sourceId)).row!
+          const used = await eq.used(obs)
+          const result = computePoint(computationInput(run, ctx, obs, source, used))
           value = { obs, result }
         }
         catch (err) {

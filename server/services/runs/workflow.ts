@@ -22,7 +22,7 @@ import { RunRevision } from '#server/models/RunRevision'
 import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { assertVersion, conflict, engine, invalidInput, notFound } from '#server/utils/errors'
 import { assertUsableOn } from '#server/services/equipment/usability'
-import { Equipment, computationInput, loadRunContext, observationOf, pointColumns, pointRecord, refusal } from './context'
+import { Equipment, computationInput, fitProblem, loadRunContext, observationOf, pointColumns, pointRecord, refusal } from './context'
 
 /** Who makes a change (the signed-in user, or a demo account in the seed). */
 export interface Actor {
@@ -30,8 +30,9 @@ export interface Actor {
 }
 
 /** Header fields whose change alters the computed points. */
-const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate'] as const
-const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId'] as const
+/** Header fields the points' results depend on (the reading model's inputs, the procedure, the equipment's date; the spot check's distance and spot). */
+const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate', 'distanceMm', 'spotDiameterMm'] as const
+const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'spotDiameterMm', 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId'] as const
 
 export const LOCKED_MESSAGE = 'approved runs cannot change'
 export const FROZEN_MESSAGE = 'the run is under review: nothing in it can change until the reviewer returns it'
@@ -135,7 +136,13 @@ function header(run: CalibrationRun): Record<string, unknown> {
  * Recompute (and store) every point of a run after a header change (voided points stay as they
  * were); 400 on `calibrationDate` when equipment is no longer usable.
  */
-async function recomputePoints(t: Transaction, actor: Actor, run: CalibrationRun, recheckEquipment: boolean): Promise<number> {
+/**
+ * Recompute every point of a run after a header change its results depend on; each point must still fit
+ * (source emissivity in the band, spot against aperture): a refusal names the header field that changed.
+ */
+async function recomputePoints(t: Transaction, actor: Actor, run: CalibrationRun, changed: readonly string[]): Promise<number> {
+  const recheckEquipment = changed.includes('calibrationDate')
+  const blame = (['distanceMm', 'spotDiameterMm', 'procedureVersionId', 'calibrationDate'] as const).find(k => changed.includes(k))
   const points = await RunPoint.findAll({ where: { runId: run.id, voidedAt: null }, order: [['seq', 'ASC']], transaction: t })
   if (!points.length) return 0
   const missing = ['reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'].filter(f => run.get(f) == null)
@@ -151,7 +158,10 @@ async function recomputePoints(t: Transaction, actor: Actor, run: CalibrationRun
       const r = await eq.reference(obs.referenceInstrumentId)
       if (r.reason) invalidInput({ calibrationDate: refusal(r.row?.assetTag ?? `Reference ${obs.referenceInstrumentId}`, run.calibrationDate, r.reason) })
     }
-    const result = engine(() => computePoint(computationInput(run, ctx, obs, s.row!)))
+    const problem = fitProblem(run, ctx, s.row!, obs)
+    if (problem) invalidInput({ [blame ?? problem.field]: `Point ${p.seq}: ${problem.message}` })
+    const used = await eq.used(obs)
+    const result = engine(() => computePoint(computationInput(run, ctx, obs, s.row!, used)))
     const before = pointRecord(p)
     p.set({ ...pointColumns(obs, result), monteCarlo: null })
     await p.save({ transaction: t })
@@ -186,7 +196,7 @@ export async function updateRunIn(t: Transaction, actor: Actor, id: number, inpu
   if (!keys.length) return run
   if (!run.contributorIds.includes(actor.id)) run.contributorIds = [...run.contributorIds, actor.id]
   await run.save({ transaction: t })
-  if (keys.some(k => (RECOMPUTE_KEYS as readonly string[]).includes(k))) await recomputePoints(t, actor, run, keys.includes('calibrationDate'))
+  if (keys.some(k => (RECOMPUTE_KEYS as readonly string[]).includes(k))) await recomputePoints(t, actor, run, keys)
   const after = header(run)
   const pick = (o: Record<string, unknown>) => Object.fromEntries(keys.filter(k => k in o).map(k => [k, o[k]]))
   if (reason) await RunRevision.create({ runId: run.id, pointId: null, userId: actor.id, at: new Date(), reason, before: pick(before), after: pick(after) }, { transaction: t })
