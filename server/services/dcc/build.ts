@@ -21,7 +21,8 @@
  *   temperature, emissivity setting, instrument temperature) and one `result` per point:
  *   reference temperature, expected reading, indication (mean reading) and error of indication
  *   with `si:expandedUnc` (U, k, p) and — only when the certificate states conformity — its
- *   conformity (pass, conditionalPass, conditionalFail, fail) with the decision rule and limits;
+ *   conformity (pass, conditionalPass, conditionalFail, fail) with the decision rule, the limits
+ *   and the probability of conformity where the certificate states one;
  * - `document`: the PDF, base64, with its file name and type.
  *
  * Numbers are written as the PDF prints them: temperatures in kelvin to the decimal place of the
@@ -30,7 +31,7 @@
 import { create } from 'xmlbuilder2'
 import { formatFixed, kelvinFixed } from '#shared/format'
 import type { CertificateData, CertificatePoint } from '#server/services/certificates/pdf'
-import { overallConformity } from '#server/services/certificates/pdf'
+import { overallConformity, probabilityText } from '#server/services/certificates/pdf'
 import { DCC_CONFORMITY, DCC_NS, DCC_SCHEMA_LOCATION, DCC_SCHEMA_VERSION, DCC_WRITER_RELEASE, REF, SI_NS, UNIT, XMLNS_NS, XSI_NS, countryCode } from './format'
 
 type Node = ReturnType<typeof create>
@@ -335,6 +336,17 @@ function pointResult(results: Node, input: DccInput, p: CertificatePoint, index:
     quantity(limits, { name: 'Upper tolerance limit', value: formatFixed(p.toleranceK, dec), unit: UNIT.kelvin })
     quantity(limits, { refType: REF.acceptanceLimitLower, name: 'Lower acceptance limit', value: neg(formatFixed(p.acceptanceLimitK, dec)), unit: UNIT.kelvin })
     quantity(limits, { refType: REF.acceptanceLimitUpper, name: 'Upper acceptance limit', value: formatFixed(p.acceptanceLimitK, dec), unit: UNIT.kelvin })
+    const pc = p.probabilityOfConformity
+    if (pc != null) {
+      // As the PDF prints it: one decimal of a percent, never 0 % or 100 % (then 0.1 % or 99.9 %, "below"/"above").
+      const value = pc >= 0.9995 ? '99.9' : pc <= 0.0005 ? '0.1' : formatFixed(pc * 100, 1)
+      quantity(limits, {
+        name: 'Probability of conformity',
+        description: [`${probabilityText(pc)}: the probability that the error lies within the tolerance limits, for a normal distribution with the standard uncertainty U/k (JCGM 106:2012).`],
+        value,
+        unit: UNIT.percent,
+      })
+    }
   }
 }
 

@@ -179,6 +179,14 @@ describe('buildDcc: what it states', () => {
     const order = ['pass', 'conditionalPass', 'conditionalFail', 'fail']
     expect(text(overall, 'dcc:conformity')).toBe(order[Math.max(...expected.map(v => order.indexOf(v!)))])
 
+    // The probability of conformity, where the certificate states one, as the PDF prints it (percent, one decimal).
+    const withProbability = { ...agreed, points: agreed.points.map((p, i) => ({ ...p, probabilityOfConformity: [0.97349, 0.99999, 0.00001][i % 3] })) }
+    const probabilities = all(parse(buildDcc(inputOf(withProbability)))['dcc:measurementResults'], 'dcc:metaData')
+      .map(m => m['dcc:data'][0]['dcc:quantity'].find((q: X) => contentOf(q['dcc:name'][0]) === 'Probability of conformity')['si:real'][0])
+      .map((r: X) => `${text(r, 'si:value')} ${text(r, 'si:unit')}`)
+    expect(probabilities.slice(0, 3)).toEqual(['97.3 \\percent', '99.9 \\percent', '0.1 \\percent'])
+    if (hasXmllint) expect(validateDcc(buildDcc(inputOf(withProbability))).valid).toBe(true)
+
     const none = buildDcc(inputOf(sampleCertificateData(12, { agreed: false }))).toString('utf8')
     expect(none).not.toContain('dcc:conformity')
     expect(none).toContain('No statement of conformity is made')
