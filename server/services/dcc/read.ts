@@ -159,6 +159,7 @@ function assertDccRoot(xml: string): void {
  * @throws DccReadError when the file is not a DCC this reader can take, naming why
  */
 export function readDcc(bytes: Uint8Array): DccReading {
+  if (Buffer.from(bytes.subarray(0, 5)).toString('latin1') === '%PDF-') throw new DccReadError('The file is a PDF document, not XML: a DCC is an XML file (record a PDF certificate with the calibration form instead)')
   let xml: string
   try {
     xml = new TextDecoder('utf-8', { fatal: true }).decode(bytes).replace(/^\uFEFF/, '')

@@ -342,7 +342,8 @@ describe('readDcc: a DCC read back', () => {
       throw new Error('not refused')
     }
     expect(refused(new Uint8Array([0x3C, 0x61, 0xC3, 0x28, 0x3E]))).toMatch(/not UTF-8/)
-    expect(refused('%PDF-1.7')).toMatch(/not XML/)
+    expect(refused(Buffer.concat([Buffer.from('%PDF-1.7\n'), Buffer.from([0xE2, 0xE3, 0xCF, 0xD3])]))).toMatch(/a PDF document, not XML/)
+    expect(refused('Certificate number: 12')).toMatch(/not XML/)
     expect(refused('<a><b></a>')).toMatch(/not well-formed XML \(line 1/)
     expect(refused('<?xml version="1.0"?><!DOCTYPE x [<!ENTITY a "aaaa"><!ENTITY b "&a;&a;&a;">]><x>&b;</x>')).toMatch(/DOCTYPE/)
     expect(refused('<dcc:digitalCalibrationCertificate xmlns:dcc="https://example.org/other"/>')).toMatch(/not a digital calibration certificate/)
