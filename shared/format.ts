@@ -79,3 +79,29 @@ export function formatFixed(value: number, decimals: number): string {
 export function celsiusFixed(kelvin: number, decimals: number): string {
   return typographicMinus(formatFixed(kelvinToCelsius(kelvin), decimals))
 }
+
+/** A decimal text as an integer count of 10^−places (`'-1.5'`, 2 → −150n); the text has at most `places` decimals. */
+function scaledDecimal(text: string, places: number): bigint {
+  const neg = text.startsWith('-')
+  const [int, frac = ''] = text.replace(/^[-+]/, '').split('.')
+  const v = BigInt(int! + frac.padEnd(places, '0'))
+  return neg ? -v : v
+}
+
+/**
+ * A kelvin value in kelvin text, rounded exactly as `celsiusFixed` rounds it in Celsius: the
+ * Celsius digits to `decimals` places plus 273.15, added in decimal (ITS-90: T/K = t/°C + 273.15),
+ * with at least two decimals — so a machine-readable certificate states the same value as the
+ * printed one. Plain ASCII (hyphen-minus), no unit.
+ * @param kelvin temperature, K
+ * @param decimals decimal places of the Celsius value
+ * @returns the temperature in kelvin as text, e.g. `'373.15'`
+ * @example kelvinFixed(373.15, 2) === '373.15'; kelvinFixed(296.15, 1) === '296.15'; kelvinFixed(373.1549, 3) === '373.155'
+ */
+export function kelvinFixed(kelvin: number, decimals: number): string {
+  const places = Math.max(decimals, 2)
+  const sum = scaledDecimal(formatFixed(kelvinToCelsius(kelvin), decimals), places) + scaledDecimal('273.15', places)
+  const neg = sum < BigInt(0)
+  const digits = (neg ? -sum : sum).toString().padStart(places + 1, '0')
+  return `${neg ? '-' : ''}${digits.slice(0, -places)}.${digits.slice(-places)}`
+}

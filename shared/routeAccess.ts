@@ -56,6 +56,7 @@ export const ROUTE_ACCESS = {
   'PATCH /api/sources/[id]': 'equipment:edit',
   'POST /api/sources/[id]/archive': 'equipment:edit',
   'POST /api/sources/[id]/calibrations': 'equipment:edit',
+  'POST /api/sources/[id]/calibrations/dcc': 'equipment:edit',
   'GET /api/sources/[id]/correction': 'equipment:read',
   'GET /api/reference-instruments': 'equipment:read',
   'POST /api/reference-instruments': 'equipment:edit',
@@ -65,6 +66,7 @@ export const ROUTE_ACCESS = {
   'PATCH /api/reference-instruments/[id]': 'equipment:edit',
   'POST /api/reference-instruments/[id]/archive': 'equipment:edit',
   'POST /api/reference-instruments/[id]/calibrations': 'equipment:edit',
+  'POST /api/reference-instruments/[id]/calibrations/dcc': 'equipment:edit',
 
   'GET /api/uploads/[id]': 'upload:read',
   'POST /api/uploads': 'upload:create',
@@ -103,6 +105,7 @@ export const ROUTE_ACCESS = {
   'POST /api/certificates': 'certificate:sign',
   'GET /api/certificates/[id]': 'certificate:read',
   'GET /api/certificates/[id]/pdf': 'certificate:read',
+  'GET /api/certificates/[id]/dcc': 'certificate:read',
   'POST /api/certificates/[id]/amend': 'certificate:sign',
   'POST /api/certificates/[id]/withdraw': 'certificate:sign',
   'POST /api/certificates/[id]/reopen': 'certificate:reopen',

@@ -6,8 +6,11 @@ import { sequelize } from '#server/utils/db'
  * One issued revision of a calibration certificate (ISO/IEC 17025 7.8): the number (with its
  * revision suffix), the approved run it reports, the electronic signature (who, when, as what, and
  * that it means "authorized for issue"), the verification code, and the SHA-256 of the stored PDF.
- * `content` keeps the exact data the PDF was built from. Never deleted; after issue only the status
- * moves (valid → superseded by an amendment, or → withdrawn), enforced by triggers (migration 0004).
+ * `content` keeps the exact data the PDF was built from. The digital calibration certificate (DCC
+ * XML, embedding the PDF) is stored the same way, its SHA-256 and size in `dccSha256`/`dccSize`
+ * (null only for revisions issued before DCCs existed, until their DCC is first built). Never
+ * deleted; after issue only the status moves (valid → superseded by an amendment, or → withdrawn),
+ * and a missing DCC may be filled in once, enforced by triggers (migrations 0004 and 0012).
  */
 export class Certificate extends Model<InferAttributes<Certificate>, InferCreationAttributes<Certificate>> {
   declare id: CreationOptional<number>
@@ -31,6 +34,8 @@ export class Certificate extends Model<InferAttributes<Certificate>, InferCreati
   declare verificationCode: string
   declare pdfSha256: string
   declare pdfSize: number
+  declare dccSha256: string | null
+  declare dccSize: number | null
   declare content: unknown
   declare amendsId: number | null
   declare amendmentReason: string | null
@@ -67,6 +72,8 @@ Certificate.init(
     verificationCode: { type: DataTypes.STRING(20), allowNull: false },
     pdfSha256: { type: DataTypes.STRING(64), allowNull: false },
     pdfSize: { type: DataTypes.INTEGER, allowNull: false },
+    dccSha256: { type: DataTypes.STRING(64), allowNull: true },
+    dccSize: { type: DataTypes.INTEGER, allowNull: true },
     content: { type: DataTypes.JSON, allowNull: false },
     amendsId: { type: DataTypes.INTEGER, allowNull: true },
     amendmentReason: { type: DataTypes.TEXT, allowNull: true },

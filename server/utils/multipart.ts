@@ -1,5 +1,8 @@
 import { readMultipartFormData, type H3Event } from 'h3'
+import type { z } from 'zod'
+import { fieldErrors } from '#shared/schemas/errors'
 import { invalidInput } from './errors'
+import { nulFields } from './validation'
 
 export interface FileForm {
   /** The text fields of the form. */
@@ -25,4 +28,17 @@ export async function readFileForm(event: H3Event): Promise<FileForm> {
     else if (p.name) fields[p.name] = p.data.toString('utf8')
   }
   return { fields, files }
+}
+
+/**
+ * A multipart form whose text fields are checked against a schema (a NUL character refused
+ * first, as `parseWith` does): 400 naming the fields at fault. The files are left to the service.
+ */
+export async function readFileFormWith<S extends z.ZodType>(event: H3Event, schema: S): Promise<{ fields: z.output<S>, files: FileForm['files'] }> {
+  const form = await readFileForm(event)
+  const nul = nulFields(form.fields)
+  if (nul.length) invalidInput(Object.fromEntries(nul.map(f => [f, 'Contains a NUL character, which no field may hold'])))
+  const checked = schema.safeParse(form.fields)
+  if (!checked.success) invalidInput(fieldErrors(checked.error))
+  return { fields: checked.data, files: form.files }
 }

@@ -17,3 +17,19 @@ export const calibrationCreateSchema = z
     if (v.dueDate <= v.calibrationDate) ctx.addIssue({ code: 'custom', path: ['dueDate'], message: 'The due date must come after the calibration date' })
   })
 export type CalibrationCreateInput = z.infer<typeof calibrationCreateSchema>
+
+/**
+ * The text fields of POST /api/sources/[id]/calibrations/dcc and
+ * /api/reference-instruments/[id]/calibrations/dcc (a multipart form; the supplier's DCC is the
+ * field `file`). Without `commit=true` the file is only read and previewed; with it the
+ * calibration is recorded, which needs the due date of the next calibration — a DCC states none.
+ */
+export const calibrationDccFieldsSchema = z
+  .object({
+    commit: z.enum(['true', 'false'], { error: 'commit is true (record) or false (preview)' }).optional(),
+    dueDate: z.preprocess(v => (v === '' ? undefined : v), dateOnlySchema.optional()),
+  })
+  .superRefine((v, ctx) => {
+    if (v.commit === 'true' && !v.dueDate) ctx.addIssue({ code: 'custom', path: ['dueDate'], message: 'Enter the due date of the next calibration: a DCC does not state one' })
+  })
+export type CalibrationDccFields = z.infer<typeof calibrationDccFieldsSchema>

@@ -60,6 +60,13 @@ export interface CertificateDTO {
   signatureMeaning: string
   pdfSha256: string
   pdfSize: number
+  /**
+   * SHA-256 and size of the stored digital calibration certificate (DCC XML, GET
+   * /api/certificates/[id]/dcc). Null for a revision issued before DCCs existed until its DCC is
+   * first downloaded (it is then built from what the revision states and stored).
+   */
+  dccSha256: string | null
+  dccSize: number | null
   /** The revision this one replaced, and why. */
   amendsId: number | null
   amendmentReason: string | null

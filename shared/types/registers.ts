@@ -31,6 +31,34 @@ export interface EquipmentCalibrationDTO {
   createdAt: string
 }
 
+/**
+ * What a supplier's digital calibration certificate (DCC) would record on a source or reference
+ * instrument (POST …/calibrations/dcc without `commit=true`): the values are read from the file,
+ * the results as text exactly as the file states them.
+ */
+export interface DccCalibrationPreview {
+  fileName: string
+  /** The DCC schema version the file declares (e.g. `3.1.2`). */
+  schemaVersion: string | null
+  /** The DCC's unique identifier (`coreData/uniqueIdentifier`). */
+  certificateNumber: string
+  /** YYYY-MM-DD (`coreData/endPerformanceDate`). */
+  calibrationDate: string
+  /** The calibration laboratory that issued the DCC. */
+  provider: string
+  /** The certificate this DCC replaces, when it names one. */
+  previousReport: string | null
+  /** The calibrated item(s) the DCC describes, to check it is this equipment's. */
+  items: { name: string, manufacturer: string | null, model: string | null, serials: string[] }[]
+  resultCount: number
+  /** The results as the record will keep them (at most 8000 characters). */
+  results: string
+  /** A recalibration date the DCC gives, to prefill the due date; the user decides. */
+  suggestedDueDate: string | null
+  /** What to check before recording (another serial, already recorded, a date in the future). */
+  warnings: string[]
+}
+
 /** Fields every piece of reference equipment carries. */
 interface EquipmentCommon {
   id: number

@@ -48,6 +48,8 @@ async function certificateDTOs(rows: Certificate[]): Promise<CertificateDTO[]> {
       signatureMeaning: c.signatureMeaning,
       pdfSha256: c.pdfSha256,
       pdfSize: c.pdfSize,
+      dccSha256: c.dccSha256 ?? null,
+      dccSize: c.dccSize ?? null,
       amendsId: c.amendsId ?? null,
       amendmentReason: c.amendmentReason ?? null,
       amendmentChanges: content.amends?.changes ?? [],
@@ -93,8 +95,13 @@ export async function certificateDetail(user: SessionUser, id: number): Promise<
   return { ...self, revisions: dtos, verificationCode: cert.verificationCode, verificationUrl: url }
 }
 
+/** The name a certificate revision's file is saved under: `BL-2026-00042-R1.pdf`, `BL-2026-00042-R1.xml` (its DCC). */
+export function certificateFileName(number: string, kind: 'pdf' | 'dcc'): string {
+  return `${number}.${kind === 'pdf' ? 'pdf' : 'xml'}`
+}
+
 /** The stored PDF of a certificate revision in the user's scope, as issued. */
 export async function certificatePdfFile(user: SessionUser, id: number): Promise<StoredFile> {
   const cert = await scopedCertificate(user, id)
-  return { sha256: cert.pdfSha256, type: 'application/pdf', size: cert.pdfSize, name: `${cert.number}.pdf` }
+  return { sha256: cert.pdfSha256, type: 'application/pdf', size: cert.pdfSize, name: certificateFileName(cert.number, 'pdf') }
 }

@@ -1,7 +1,9 @@
 /**
  * Signing and issuing certificates: the signatory enters their password again; numbers are
  * allocated gap-free in the issuing transaction; the PDF is stored by its SHA-256 and the data it
- * states is kept on the certificate (`content`). An issued certificate never changes: an error found
+ * states is kept on the certificate (`content`), and the digital calibration certificate (DCC XML,
+ * ./dcc.ts) built from the same data with the PDF embedded is stored beside it by its SHA-256 too.
+ * An issued certificate never changes: an error found
  * later is corrected by reopening — a new revision of the run, a copy that goes through entry,
  * review and signing again — and the amended certificate (-R1, -R2 …) states what changed and why
  * and supersedes the earlier one. Withdrawal keeps the certificate on record; the customer's
@@ -37,8 +39,9 @@ import { runDetail } from '#server/services/runs/runs'
 import { labSettingsRow, numberFormat } from '#server/services/settings/labSettings'
 import { labToday } from '#server/services/settings/today'
 import { storeUploadBytes } from '#server/services/uploads/uploads'
-import { certificateDetail } from './certificates'
+import { certificateDetail, certificateFileName } from './certificates'
 import { describeChanges, gather } from './content'
+import { renderAndStoreDcc } from './dcc'
 import { certificatePdf, type CertificateData } from './pdf'
 
 /**
@@ -74,11 +77,29 @@ function newVerificationCode(): string {
   return verificationCodeFrom(crypto.randomBytes(16))
 }
 
-/** Build, store (by SHA-256, like uploads) and describe the PDF of one revision. */
-async function renderAndStore(data: CertificateData): Promise<{ sha256: string, size: number }> {
+interface StoredFiles {
+  pdfSha256: string
+  pdfSize: number
+  dccSha256: string
+  dccSize: number
+}
+
+/**
+ * Build and store (by SHA-256, like uploads) the files of one revision: the PDF, then the DCC
+ * (XML) from the same data with that PDF embedded, the replaced revision named as its previous
+ * report, and the engine versions of the certified points.
+ */
+async function renderAndStore(data: CertificateData, calibrationDate: string, previous: Certificate | null, points: readonly RunPoint[]): Promise<StoredFiles> {
   const pdf = await certificatePdf(data)
-  const sha256 = await storeUploadBytes(pdf)
-  return { sha256, size: pdf.length }
+  const pdfSha256 = await storeUploadBytes(pdf)
+  const dcc = await renderAndStoreDcc({
+    content: data,
+    certificate: { number: data.number, calibrationDate, issueDate: data.dates.issued },
+    pdf: { bytes: pdf, fileName: certificateFileName(data.number, 'pdf') },
+    previousReport: previous ? { number: previous.number, pdfSha256: previous.pdfSha256 } : null,
+    engineVersions: points.map(p => p.engineVersion),
+  })
+  return { pdfSha256, pdfSize: pdf.length, dccSha256: dcc.sha256, dccSize: dcc.size }
 }
 
 /** Allocate the next sequence of a counter, in the caller's transaction: gap-free, never reused. */
@@ -139,13 +160,13 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
     signatory: { name: signer.user.name, function: fn, meaning: SIGNATURE_MEANING, signedAt: issuedAt.toISOString() },
     verification: { code, url: verificationUrl(number, code) },
   }
-  const pdf = await renderAndStore(data)
+  const files = await renderAndStore(data, run.calibrationDate, null, g.points)
   const cert = await Certificate.create({
     number, baseNumber: number, revision: 0, counterYear: year, sequence, status: 'valid',
     runId: run.id, instrumentId: g.instrument.id, organizationId: g.organization.id, instrumentSerial: g.instrument.serial,
     calibrationDate: run.calibrationDate, issueDate, issuedAt,
     signedBy: signer.user.id, signatoryName: signer.user.name, signatoryFunction: fn, signatureMeaning: SIGNATURE_MEANING,
-    verificationCode: code, pdfSha256: pdf.sha256, pdfSize: pdf.size, content: data,
+    verificationCode: code, ...files, content: data,
     amendsId: null, amendmentReason: null, supersededById: null, supersededAt: null, withdrawnAt: null, withdrawnBy: null, withdrawalReason: null,
   }, { transaction: t })
   await recordAudit(t, { userId: signer.user.id, action: auditAction, entity: 'Certificate', entityId: cert.id, after: snapshot(cert, ['content']) })
@@ -179,13 +200,13 @@ async function amendWithIn(t: Transaction, signer: Signer, old: Certificate, run
     signatory: { name: signer.user.name, function: fn, meaning: SIGNATURE_MEANING, signedAt: issuedAt.toISOString() },
     verification: { code, url: verificationUrl(number, code) },
   }
-  const pdf = await renderAndStore(data)
+  const files = await renderAndStore(data, run.calibrationDate, old, g.points)
   const cert = await Certificate.create({
     number, baseNumber: old.baseNumber, revision, counterYear: old.counterYear, sequence: old.sequence, status: 'valid',
     runId: run.id, instrumentId: g.instrument.id, organizationId: g.organization.id, instrumentSerial: g.instrument.serial,
     calibrationDate: run.calibrationDate, issueDate, issuedAt,
     signedBy: signer.user.id, signatoryName: signer.user.name, signatoryFunction: fn, signatureMeaning: SIGNATURE_MEANING,
-    verificationCode: code, pdfSha256: pdf.sha256, pdfSize: pdf.size, content: data,
+    verificationCode: code, ...files, content: data,
     amendsId: old.id, amendmentReason: reason, supersededById: null, supersededAt: null, withdrawnAt: null, withdrawnBy: null, withdrawalReason: null,
   }, { transaction: t })
   await updateAudited(t, signer.user, old, { status: 'superseded', supersededById: cert.id, supersededAt: issuedAt }, { entity: 'Certificate', action: 'supersede', omit: ['content'] })

@@ -652,6 +652,18 @@ function traceabilityBlock(w: Writer, d: CertificateData): void {
   w.y += 6
 }
 
+/**
+ * The points a statement of conformity speaks for (as left when the instrument was adjusted, else
+ * all) and the least favourable verdict among them (fail, then conditional fail, then conditional
+ * pass, then pass: ILAC-G8:09/2019 non-binary statements). The PDF and the DCC state the same.
+ */
+export function overallConformity(d: Pick<CertificateData, 'adjusted' | 'points'>): { basis: CertificatePoint[], worst: Verdict } {
+  const stagePoints = d.adjusted ? d.points.filter(p => p.stage === 'as-left') : d.points
+  const basis = stagePoints.length ? stagePoints : d.points
+  const worst: Verdict = basis.some(p => p.verdict === 'fail') ? 'fail' : basis.some(p => p.verdict === 'conditional-fail') ? 'conditional-fail' : basis.some(p => p.verdict === 'conditional-pass') ? 'conditional-pass' : 'pass'
+  return { basis, worst }
+}
+
 /** A probability of conformity as the certificate prints it: one decimal of a percent, never 0 % or 100 %. */
 export function probabilityText(p: number): string {
   if (p >= 0.9995) return 'above 99.9 %'
@@ -668,9 +680,7 @@ function conformityBlock(w: Writer, d: CertificateData): void {
   }
   const rule = [a.ruleLabel, a.guardBandText].filter(Boolean).join(', ')
   w.paragraph(`Specification and decision rule agreed with the customer on ${longDate(a.agreedOn)} (${a.how}): ${a.specificationText}; ${rule} (${a.ruleReference}). ${d.statements.decisionRule}`)
-  const stagePoints = d.adjusted ? d.points.filter(p => p.stage === 'as-left') : d.points
-  const basis = stagePoints.length ? stagePoints : d.points
-  const worst: Verdict = basis.some(p => p.verdict === 'fail') ? 'fail' : basis.some(p => p.verdict === 'conditional-fail') ? 'conditional-fail' : basis.some(p => p.verdict === 'conditional-pass') ? 'conditional-pass' : 'pass'
+  const { basis, worst } = overallConformity(d)
   const summary = {
     'pass': 'meets the specification at every point',
     'conditional-pass': 'meets the specification at every point, at some points only conditionally (the error lies within the limits but the uncertainty interval crosses a limit)',

@@ -5,7 +5,7 @@
  * server/api/reference-instruments check the role and validate, then call these.
  */
 import { createError, type H3Event } from 'h3'
-import { literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
+import { literal, type Model, type ModelStatic, type Order, type Transaction, type WhereOptions } from 'sequelize'
 import type { z } from 'zod'
 import type { EquipmentType } from '#shared/registers/constants'
 import type { CalibrationCreateInput } from '#shared/schemas/calibration'
@@ -28,9 +28,9 @@ import { ListFilter } from '#server/utils/search'
 import { labToday } from '#server/services/settings/today'
 import { inTransaction } from '#server/utils/transaction'
 
-type EquipmentRow = BlackbodySource | ReferenceInstrument
+export type EquipmentRow = BlackbodySource | ReferenceInstrument
 
-interface EquipmentRegister<R extends EquipmentRow, D> {
+export interface EquipmentRegister<R extends EquipmentRow, D> {
   type: EquipmentType
   entity: 'BlackbodySource' | 'ReferenceInstrument'
   /** For messages: "No such source". */
@@ -161,27 +161,33 @@ export async function archiveEquipment<R extends EquipmentRow, D>(reg: Equipment
   return reg.dto(row, cals.get(id)?.[0], await labToday())
 }
 
+/**
+ * Record an external calibration of a source or reference instrument in the caller's transaction,
+ * with its audit rows: 404 for no such equipment, 400 for an upload that is not an equipment
+ * certificate, 409 when the certificate number is already recorded for it.
+ */
+export async function addCalibrationIn<R extends EquipmentRow, D>(t: Transaction, reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibration> {
+  const row = await reg.model.findByPk(id, { transaction: t })
+  if (!row) notFound(reg.label)
+  if (input.uploadId) {
+    const upload = await Upload.findByPk(input.uploadId, { transaction: t })
+    if (!upload || upload.purpose !== 'equipment-certificate') invalidInput({ uploadId: 'No uploaded equipment certificate with this id' })
+  }
+  const clash = await EquipmentCalibration.findOne({ where: { equipmentType: reg.type, equipmentId: id, certificateNumber: input.certificateNumber }, transaction: t })
+  if (clash) {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This certificate is already recorded', data: { fields: { certificateNumber: 'Already recorded for this equipment' } } })
+  }
+  const created = await EquipmentCalibration.create(
+    { equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id },
+    { transaction: t },
+  )
+  await recordAudit(t, { userId: user.id, action: 'create', entity: 'EquipmentCalibration', entityId: created.id, after: snapshot(created) })
+  await recordAudit(t, { userId: user.id, action: 'add-calibration', entity: reg.entity, entityId: id, after: { calibrationId: created.id, certificateNumber: created.certificateNumber, calibrationDate: created.calibrationDate, dueDate: created.dueDate } })
+  return created
+}
+
 export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibrationDTO> {
-  const cal = await inTransaction(async (t) => {
-    const row = await reg.model.findByPk(id, { transaction: t })
-    if (!row) notFound(reg.label)
-    if (input.uploadId) {
-      const upload = await Upload.findByPk(input.uploadId, { transaction: t })
-      if (!upload || upload.purpose !== 'equipment-certificate') invalidInput({ uploadId: 'No uploaded equipment certificate with this id' })
-    }
-    const clash = await EquipmentCalibration.findOne({ where: { equipmentType: reg.type, equipmentId: id, certificateNumber: input.certificateNumber }, transaction: t })
-    if (clash) {
-      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This certificate is already recorded', data: { fields: { certificateNumber: 'Already recorded for this equipment' } } })
-    }
-    const created = await EquipmentCalibration.create(
-      { equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id },
-      { transaction: t },
-    )
-    await recordAudit(t, { userId: user.id, action: 'create', entity: 'EquipmentCalibration', entityId: created.id, after: snapshot(created) })
-    await recordAudit(t, { userId: user.id, action: 'add-calibration', entity: reg.entity, entityId: id, after: { calibrationId: created.id, certificateNumber: created.certificateNumber, calibrationDate: created.calibrationDate, dueDate: created.dueDate } })
-    return created
-  })
-  return calibrationDTO(cal)
+  return calibrationDTO(await inTransaction(t => addCalibrationIn(t, reg, user, id, input)))
 }
 
 export async function exportEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, event: H3Event, q: SourceQuery | ReferenceQuery): Promise<string> {

@@ -93,6 +93,18 @@ export async function storeUploadBytes(data: Buffer): Promise<string> {
   return sha256
 }
 
+/**
+ * The bytes stored under a content hash, checked against it: 404 when the file is missing; an
+ * error when its content no longer has that hash (the store was damaged — never served as if whole).
+ */
+export async function readStoredBytes(sha256: string): Promise<Buffer> {
+  const file = uploadFilePath(sha256)
+  if (!fs.existsSync(file)) notFound('file')
+  const data = await fs.promises.readFile(file)
+  if (crypto.createHash('sha256').update(data).digest('hex') !== sha256) throw new Error(`stored file ${sha256} does not match its hash`)
+  return data
+}
+
 /** `attachment; filename="…"; filename*=UTF-8''…` for a display name. */
 export function attachmentDisposition(name: string): string {
   const ascii = name.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_')

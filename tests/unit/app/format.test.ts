@@ -1,7 +1,7 @@
 // Numbers as the certificate writes them: Celsius from kelvin by the ITS-90 definition, decimal
 // rounding (half away from zero, as a person rounds on paper) and the typographic minus.
 import { describe, expect, it } from 'vitest'
-import { celsiusFixed, formatFixed, kelvinToCelsius, kelvinToCelsiusText, typographicMinus } from '../../../shared/format'
+import { celsiusFixed, formatFixed, kelvinFixed, kelvinToCelsius, kelvinToCelsiusText, typographicMinus } from '../../../shared/format'
 
 describe('kelvinToCelsius', () => {
   // ITS-90 (BIPM, "Supplementary Information for the ITS-90"): t90/°C = T90/K − 273.15.
@@ -53,5 +53,25 @@ describe('celsiusFixed and typographicMinus', () => {
   it('replaces a hyphen-minus only where it is a sign', () => {
     expect(typographicMinus('-0.4 to -1.2 (-3)')).toBe('\u22120.4 to \u22121.2 (\u22123)')
     expect(typographicMinus('8-14 µm, BL-2026-00042, ±-1')).toBe('8-14 µm, BL-2026-00042, ±\u22121')
+  })
+})
+
+describe('kelvinFixed: kelvin text rounded as the certificate rounds Celsius (for the DCC)', () => {
+  // ITS-90: T90/K = t90/°C + 273.15 exactly, so the kelvin text is the printed Celsius text plus 273.15.
+  it('adds 273.15 in decimal to the Celsius digits celsiusFixed prints', () => {
+    expect(kelvinFixed(373.15, 2)).toBe('373.15')
+    expect(kelvinFixed(296.15, 1)).toBe('296.15') // 23.0 °C printed → 296.15 K (273.15 has two decimals)
+    expect(kelvinFixed(373.1, 1)).toBe('373.15') // 99.95 °C prints as 100.0 °C: the kelvin text follows it
+    expect(kelvinFixed(263.149, 2)).toBe('263.15') // −10.001 °C prints as −10.00 °C
+    expect(kelvinFixed(373.1549, 3)).toBe('373.155')
+  })
+  it('is the printed Celsius value plus 273.15 for every value of a sweep (both texts read back as numbers)', () => {
+    for (let k = 200; k < 1800; k += 0.731) {
+      for (const d of [1, 2, 3]) {
+        const c = Number(celsiusFixed(k, d).replace('\u2212', '-'))
+        expect(Math.abs(Number(kelvinFixed(k, d)) - (c + 273.15)), `${k} K, ${d} decimals`).toBeLessThan(1e-9)
+        expect(kelvinFixed(k, d).split('.')[1]!.length).toBe(Math.max(d, 2))
+      }
+    }
   })
 })
