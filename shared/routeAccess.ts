@@ -114,6 +114,7 @@ export const ROUTE_ACCESS = {
   'GET /api/settings/today': 'account:self',
   'PATCH /api/settings/lab': 'settings:edit',
 
+  'GET /api/staff': 'run:read',
   'GET /api/admin/users': 'user:manage',
   'POST /api/admin/users': 'user:manage',
   'PATCH /api/admin/users/[id]': 'user:manage',

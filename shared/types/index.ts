@@ -9,6 +9,13 @@ export interface SessionUser {
   organizationId: number | null
 }
 
+/** A member of the laboratory's staff, as lab roles see them (GET /api/staff). */
+export interface StaffMemberDTO {
+  id: number
+  name: string
+  role: Role
+}
+
 /** A user as the administration API returns it (never the password hash). */
 export interface UserDTO extends SessionUser {
   active: boolean

@@ -90,7 +90,7 @@ describe('POST /api/calculations/expected-reading from a radiance temperature (c
   })
 
   it('the Monte Carlo and band-radiance answers name the constants too; ITS-90 changes the band radiance by its c2', async () => {
-    const inputs = Object.fromEntries(['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'].map(k => [k, { distribution: 'constant', value: k.endsWith('K') ? 373.15 : 1 }]))
+    const inputs: Record<string, Record<string, unknown>> = Object.fromEntries(['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'].map(k => [k, { distribution: 'constant', value: k.endsWith('K') ? 373.15 : 1 }]))
     inputs.sourceTemperatureK = { distribution: 'normal', value: 373.15, standardUncertainty: 0.1 }
     const mc = await tech.post('/api/calculations/monte-carlo', { band: LW, inputs, trials: 2000, constants: 'ITS-90' })
     expect(mc.status, JSON.stringify(mc.body)).toBe(200)

@@ -50,6 +50,14 @@ describe('procedures: quality writes them, each edit is a new version', () => {
     await page.locator('[data-template-distribution="2"]').selectOption('standard')
     await page.locator('[data-template-dof="2"]').fill('8')
 
+    // What it applies to: both kinds of source, 0.5–20 µm, −50 °C to 1500 °C (the setup checks use it).
+    await page.locator('[data-source-kind="flat-plate"]').check()
+    await page.locator('[data-source-kind="cavity"]').check()
+    await page.locator('#appl-band-min').fill('0.5')
+    await page.locator('#appl-band-max').fill('20000 nm')
+    await page.locator('#appl-min').fill('-50')
+    await page.locator('#appl-max').fill('1500')
+
     await page.getByTestId('add-cmc').click()
     await page.locator('[data-cmc-from="0"]').fill('150')
     await page.locator('[data-cmc-to="0"]').fill('50')
@@ -88,6 +96,8 @@ describe('procedures: quality writes them, each edit is a new version', () => {
     expect(Math.abs(stored.body.currentVersion.cmc[0]!.minK - 323.15)).toBeLessThan(1e-9)
     expect(stored.body.currentVersion.template[2]).toMatchObject({ unit: 'mK', input: 'reading', distribution: 'standard', value: 120, dof: 8, coverageFactor: null })
     expect(stored.body.currentVersion.template[0]).toMatchObject({ distribution: 'normal', coverageFactor: 2, dof: null })
+    expect(stored.body.currentVersion.applicability).toMatchObject({ sourceKinds: ['flat-plate', 'cavity'], bandMinUm: 0.5, bandMaxUm: 20 })
+    expect(Math.abs(stored.body.currentVersion.applicability!.maxK - 1773.15)).toBeLessThan(1e-9)
   })
 
   it('edits the procedure as version 2 and still shows version 1 on request', async () => {
@@ -148,26 +158,22 @@ describe('runs: a technician starts one', () => {
     await page.getByTestId('save-run').click()
     await expect.poll(() => page.locator('[data-field-error="instrumentId"]').textContent()).toMatch(/Choose the instrument/)
     expect(await page.locator('[data-field-error="procedureVersionId"]').textContent()).toMatch(/Choose the procedure/)
-    expect(await page.locator('[data-field-error="ambientTemperatureK"]').textContent()).toMatch(/number/)
     await shot(page, 'run-new-errors')
 
     await page.getByTestId('instrument-search').fill(instrument.serial)
     await page.locator(`[data-instrument-option="${instrument.serial}"]`).click()
     await expect.poll(() => page.getByTestId('chosen-instrument').textContent()).toContain(instrument.serial)
-    await expect.poll(() => page.locator('#emissivitySetting').inputValue()).toBe(String(instrument.defaultEmissivity))
+    // Nothing is pre-filled: the emissivity setting is what was set on the instrument, entered like every condition.
+    expect(await page.locator('#emissivitySetting').inputValue()).toBe('')
     const stored = await api.get<ProcedureDetailDTO>(`/api/procedures/${procedureId}`)
     await page.locator('#procedureVersionId').selectOption(String(stored.body.currentVersion.id))
-    await page.locator('#receivedDate').fill('2026-12-01')
-    await page.locator('#calibrationDate').fill('2026-11-30')
+    await page.locator('#calibrationDate').fill('2026-12-02')
     await page.locator('#ambientTemperatureK').fill('22.5')
-    await expect.poll(() => page.locator('#reflectedTemperatureK').inputValue()).toBe('22.5')
-    expect(await page.locator('#instrumentTemperatureK').inputValue()).toBe('22.5')
+    // The reflected and instrument temperatures do not follow the ambient one: they are measured.
+    expect(await page.locator('#reflectedTemperatureK').inputValue()).toBe('')
     await page.locator('#instrumentTemperatureK').fill('24')
     await page.locator('#relativeHumidityPct').fill('41')
-    await page.locator('#distanceMm').fill('300')
-    await page.getByTestId('save-run').click()
-    await expect.poll(() => page.locator('[data-field-error="calibrationDate"]').textContent()).toMatch(/before the date the item was received/)
-    await page.locator('#calibrationDate').fill('2026-12-02')
+    await page.locator('#emissivitySetting').fill(String(instrument.defaultEmissivity))
     await page.getByTestId('adjusted').check()
     await shot(page, 'run-new-filled')
     await page.getByTestId('save-run').click()
@@ -183,24 +189,28 @@ describe('runs: a technician starts one', () => {
       procedureVersionId: stored.body.currentVersion.id,
       procedureVersionNumber: 2,
       technicianId: me.body.id,
-      receivedDate: '2026-12-01',
+      receivedDate: null,
       calibrationDate: '2026-12-02',
       relativeHumidityPct: 41,
-      distanceMm: 300,
+      // not measured yet, so not recorded
+      distanceMm: null,
+      reflectedTemperatureK: null,
       emissivitySetting: instrument.defaultEmissivity,
       adjusted: true,
+      placeOfCalibration: 'laboratory',
       status: 'draft',
     })
-    expect(Math.abs(run.body.ambientTemperatureK - 295.65)).toBeLessThan(1e-9)
-    expect(Math.abs(run.body.reflectedTemperatureK - 295.65)).toBeLessThan(1e-9)
-    expect(Math.abs(run.body.instrumentTemperatureK - 297.15)).toBeLessThan(1e-9)
+    expect(Math.abs(run.body.ambientTemperatureK! - 295.65)).toBeLessThan(1e-9)
+    expect(Math.abs(run.body.instrumentTemperatureK! - 297.15)).toBeLessThan(1e-9)
+    // The run page says what is still to be measured.
+    await expect.poll(() => page.getByTestId('missing-conditions').textContent()).toMatch(/measuring distance, reflected \(surroundings\) temperature/)
   })
 
   it('preselects the instrument from the link', async () => {
     const { page } = browser
     await page.goto(`${BASE_URL}/runs/new?instrumentId=${instrument.id}`)
     await expect.poll(() => page.getByTestId('chosen-instrument').textContent()).toContain(instrument.serial)
-    expect(await page.locator('#emissivitySetting').inputValue()).toBe(String(instrument.defaultEmissivity))
+    expect(await page.locator('#emissivitySetting').inputValue()).toBe('')
   })
 
   it('lists the run among the technician\'s own runs', async () => {

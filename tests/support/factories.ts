@@ -168,7 +168,9 @@ export async function organizationOf(customer: Client): Promise<number> {
 
 /** The id of the source or reference instrument with this asset tag. */
 export async function equipmentId(c: Client, assetTag: string): Promise<number> {
-  const id = (await equipmentIds(c))[assetTag]
+  const sources = (await c.get('/api/sources?pageSize=200')).body.rows as { id: number, assetTag: string }[]
+  const refs = (await c.get('/api/reference-instruments?pageSize=200')).body.rows as { id: number, assetTag: string }[]
+  const id = [...sources, ...refs].find(e => e.assetTag === assetTag)?.id
   expect(id, `no equipment ${assetTag}`).toBeTruthy()
   return id!
 }

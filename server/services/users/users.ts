@@ -5,7 +5,9 @@
  */
 import type { Transaction } from 'sequelize'
 import type { PasswordResetInput, UserCreateInput, UserUpdateInput } from '#shared/schemas/user'
-import type { SessionUser, UserDTO } from '#shared/types'
+import { can } from '#shared/permissions'
+import { LAB_ROLES } from '#shared/roles'
+import type { SessionUser, StaffMemberDTO, UserDTO } from '#shared/types'
 import { Organization } from '#server/models/Organization'
 import { User } from '#server/models/User'
 import { recordAudit, createAudited, updateAudited } from '#server/utils/audit'
@@ -26,6 +28,15 @@ async function findUser(t: Transaction, id: number): Promise<User> {
   const user = await User.findByPk(id, { transaction: t })
   if (!user) notFound('user')
   return user
+}
+
+/**
+ * The laboratory's active staff who may perform runs (names and roles only): the people a request's
+ * runs can be assigned to. Lab roles read it; it holds no e-mail and no customer.
+ */
+export async function listStaff(): Promise<StaffMemberDTO[]> {
+  const users = await User.findAll({ where: { active: true, role: LAB_ROLES as unknown as string[] }, attributes: ['id', 'name', 'role'], order: [['name', 'ASC']] })
+  return users.filter(u => can(u.role, 'run:edit')).map(u => ({ id: u.id, name: u.name, role: u.role }))
 }
 
 /** Every user (a lab has tens, not thousands: the page sorts and filters them). */

@@ -4,13 +4,14 @@
 // radiance-temperature point (JCGM 101). Reference values: scipy (tests/reference/reference_basis.py),
 // hand arithmetic written beside each check.
 import { describe, expect, it } from 'vitest'
+
 import { computePoint } from '../../../shared/calibration/compute'
 import { monteCarloPlan, monteCarloPlanInputs, planReadingModel } from '../../../shared/calibration/monteCarloPlan'
 import { bandSpanUm, emissivityForBand, spotFit, spotProblem, tableMean } from '../../../shared/calibration/setup'
 import { EngineInputError } from '../../../shared/radiometry/errors'
 import { readingModel, readingSensitivities } from '../../../shared/radiometry/reading'
 import { runMonteCarlo, validateGumResult } from '../../../shared/uncertainty/montecarlo'
-import type { EquipmentLine, PointComputationInput, ReferenceBasisInput, TemplateComponent } from '../../../shared/types/runs'
+import type { BandInput, EquipmentLine, PointComputationInput, ReferenceBasisInput, TemplateComponent } from '../../../shared/types/runs'
 
 const BANDS = {
   LW: { kind: 'rectangular', lambda1Um: 8, lambda2Um: 14 },
@@ -285,7 +286,7 @@ describe('Monte Carlo of a radiance-temperature point (JCGM 101)', () => {
 
 describe('the Monte Carlo worker’s model (planReadingModel)', () => {
   it('a tabulated band goes through a signal table and agrees with the exact reading model within 1e-9 K, output terms added', () => {
-    const band = { kind: 'tabulated', points: [[7, 0], [8, 0.6], [10, 1], [13, 0.9], [14.5, 0]] } as const
+    const band: BandInput = { kind: 'tabulated', points: [[7, 0], [8, 0.6], [10, 1], [13, 0.9], [14.5, 0]] }
     const viaTable = planReadingModel({ kind: 'reading', band })
     const exact = readingModel(band)
     let compared = 0
