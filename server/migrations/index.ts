@@ -11,6 +11,8 @@ import * as m0006 from './0006-requests'
 import * as m0007 from './0007-sessions-throttles'
 import * as m0008 from './0008-lab-time-zone'
 import * as m0009 from './0009-record-truth'
+// 0010 is taken by the source certified basis (another branch).
+import * as m0011 from './0011-shared-state'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -22,4 +24,5 @@ export const migrations = [
   { name: '0007-sessions-throttles', ...m0007 },
   { name: '0008-lab-time-zone', ...m0008 },
   { name: '0009-record-truth', ...m0009 },
+  { name: '0011-shared-state', ...m0011 },
 ]

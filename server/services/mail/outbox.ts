@@ -15,8 +15,6 @@
  * No Nuxt or Nitro imports: the Nitro plugin (server/plugins/mailSender.ts), the admin routes,
  * the tests and the benchmark all call these functions.
  */
-import crypto from 'node:crypto'
-import os from 'node:os'
 import { Op, type Transaction, type WhereOptions } from 'sequelize'
 import type { MailKind, OutboxQuery } from '#shared/schemas/mail'
 import type { Page } from '#shared/types'
@@ -25,6 +23,7 @@ import { conflict, notFound } from '#server/utils/errors'
 import { inTransaction } from '#server/utils/transaction'
 import { OutboxMessage } from '#server/models/OutboxMessage'
 import { recordAudit } from '#server/utils/audit'
+import { INSTANCE_ID } from '#server/utils/instance'
 import { deliverMail, mailDomain, type OutgoingMail } from './transport'
 
 export const MAX_ATTEMPTS = 14
@@ -35,7 +34,7 @@ export const CLAIM_MS = 120_000
 const BATCH = 50
 
 /** This process, as it signs its claims. */
-export const INSTANCE_ID = `${os.hostname()}:${process.pid}:${crypto.randomBytes(3).toString('hex')}`
+export { INSTANCE_ID }
 
 export interface QueueInput {
   kind: MailKind
