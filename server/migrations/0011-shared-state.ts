@@ -8,7 +8,9 @@ import { dialectOf } from './lib'
  * - `calculation_jobs`: Monte Carlo jobs (status, progress, result), so any instance answers a poll
  *   (server/services/calculations/jobs.ts);
  * - `task_leases`: who runs a scheduled job now, until when (server/utils/lease.ts);
- * - PostgreSQL only: case-insensitive search through `lower(column)`. Prefix search (`LIKE 'abc%'`)
+ * - PostgreSQL only: the case-insensitive uniqueness that SQLite's NOCASE columns give (an
+ *   instrument's maker, model and serial within its organization; equipment asset tags), and
+ *   case-insensitive search through `lower(column)`. Prefix search (`LIKE 'abc%'`)
  *   uses B-tree indexes with `text_pattern_ops`; where lists search inside the text
  *   (`LIKE '%abc%'`), trigram indexes (pg_trgm, in Debian's `postgresql` package) when the
  *   extension can be created, else a sequential scan of those small tables.
@@ -46,6 +48,10 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
   if (dialectOf(qi) !== 'postgres') return
   const q = (sql: string) => qi.sequelize.query(sql)
+  // What SQLite's NOCASE columns make unique regardless of case (migration 0002).
+  await q('CREATE UNIQUE INDEX instruments_identity_unique_lower ON instruments ("organizationId", lower(maker), lower(model), lower(serial))')
+  await q('CREATE UNIQUE INDEX blackbody_sources_asset_tag_unique_lower ON blackbody_sources (lower("assetTag"))')
+  await q('CREATE UNIQUE INDEX reference_instruments_asset_tag_unique_lower ON reference_instruments (lower("assetTag"))')
   const prefix: [string, string[]][] = [
     ['instruments', ['serial', 'assetTag', 'maker', 'model']],
     ['blackbody_sources', ['assetTag', 'maker', 'model', 'serial']],
