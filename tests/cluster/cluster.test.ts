@@ -7,6 +7,7 @@ import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { addDays, labLocalDate } from '../../shared/mail/milestones'
 import type { StoredMessage } from '../../scripts/lib/mailSink'
+import type { OutboxMessageDTO } from '../../shared/types'
 import { GOOD_RECEIPT, makeCustomer, makeInstrument, makeSource } from '../support/factories'
 import { Client, DEMO_PASSWORD, signedIn, unique } from '../support/http'
 
@@ -149,8 +150,8 @@ describe('two instances on one PostgreSQL', () => {
     // One run did the work; the other waited for the lease and found everything logged. (Both find
     // nothing new when the hourly schedule of either instance got there first.)
     expect(Math.min(ra.body.queued, rb.body.queued)).toBe(0)
-    const outbox = (await adminB.get(`/api/admin/mail/outbox?kind=reminder&pageSize=100`)).body.rows as { to: string[] }[]
-    expect(outbox.filter(m => m.to.includes(contact.email))).toHaveLength(1)
+    const outbox = (await adminB.get(`/api/admin/mail/outbox?kind=reminder&pageSize=100`)).body.rows as OutboxMessageDTO[]
+    expect(outbox.filter(m => m.recipients.includes(contact.email))).toHaveLength(1)
 
     const mine = await waitFor(() => {
       const m = received().filter(x => x.to.includes(contact.email))
