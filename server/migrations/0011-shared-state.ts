@@ -10,7 +10,7 @@ import { dialectOf } from './lib'
  * - `task_leases`: who runs a scheduled job now, until when (server/utils/lease.ts);
  * - PostgreSQL only: the case-insensitive uniqueness that SQLite's NOCASE columns give (an
  *   instrument's maker, model and serial within its organization; equipment asset tags), and
- *   case-insensitive search through `lower(column)`. Prefix search (`LIKE 'abc%'`)
+ *   case-insensitive search through `lower(column)`, and covering indexes for the instrument list. Prefix search (`LIKE 'abc%'`)
  *   uses B-tree indexes with `text_pattern_ops`; where lists search inside the text
  *   (`LIKE '%abc%'`), trigram indexes (pg_trgm, in Debian's `postgresql` package) when the
  *   extension can be created, else a sequential scan of those small tables.
@@ -52,6 +52,11 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await q('CREATE UNIQUE INDEX instruments_identity_unique_lower ON instruments ("organizationId", lower(maker), lower(model), lower(serial))')
   await q('CREATE UNIQUE INDEX blackbody_sources_asset_tag_unique_lower ON blackbody_sources (lower("assetTag"))')
   await q('CREATE UNIQUE INDEX reference_instruments_asset_tag_unique_lower ON reference_instruments (lower("assetTag"))')
+  // The instrument list's page of ids from an index alone, as SQLite's (archived, column) indexes
+  // give it (SQLite's indexes end in the rowid): (archived, column, id), so ORDER BY column, id needs no sort.
+  for (const c of ['serial', 'nextDueDate', 'assetTag', 'maker', 'model', 'kind', 'status', 'updatedAt']) {
+    await q(`CREATE INDEX "instruments_archived_${c}_id" ON instruments (archived, "${c}", id)`)
+  }
   const prefix: [string, string[]][] = [
     ['instruments', ['serial', 'assetTag', 'maker', 'model']],
     ['blackbody_sources', ['assetTag', 'maker', 'model', 'serial']],

@@ -24,7 +24,7 @@ export interface BandlightConfig {
   databasePoolMax: number
   /**
    * Where stored files (uploads, certificate PDFs) live (FILE_STORAGE): `directory` (under
-   * {@link dataDir}) or `database` (table `stored_files`); null = `directory` on SQLite,
+   * {@link dataDir}) or `database` (table `file_contents`); null = `directory` on SQLite,
    * `database` on PostgreSQL.
    */
   fileStorage: 'directory' | 'database' | null

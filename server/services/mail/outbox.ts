@@ -76,7 +76,8 @@ export interface EventMailInput {
  * issued with its portal link) in the event's own transaction, so the event and its message
  * commit together. Returns null, and queues nothing, when a message with the same dedupeKey is
  * already in the outbox (the event was handled before). Checked before inserting, inside the
- * transaction: SQLite transactions here are BEGIN IMMEDIATE, so no other writer runs in between.
+ * transaction: SQLite transactions here are BEGIN IMMEDIATE, so no other writer runs in between; on
+ * PostgreSQL a concurrent second copy fails on the unique dedupeKey and its transaction rolls back.
  */
 export async function queueEventMail(t: Transaction, input: EventMailInput): Promise<OutboxMessage | null> {
   const key = `${input.kind}:${input.dedupeKey}`

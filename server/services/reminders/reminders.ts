@@ -281,7 +281,7 @@ async function writeGroup(group: PlannedGroup, today: IsoDate): Promise<boolean>
       }
       // Plain multi-row INSERTs: a first run on a large register logs tens of thousands of rows,
       // and model instances would cost more than the scan itself.
-      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00').
+      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00'); PostgreSQL reads it as a timestamptz.
       const createdAt = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')
       for (let i = 0; i < group.items.length; i += LOG_CHUNK) {
         const chunk = group.items.slice(i, i + LOG_CHUNK)
