@@ -6,7 +6,7 @@
  * Everything is removed when you press Ctrl+C. In production a load balancer sits in front of the
  * instances and DATABASE_URL names your own PostgreSQL (README, "Configuration").
  */
-import { startBandlightCluster } from './lib/cluster'
+import { startBandlightCluster, type BandlightCluster } from './lib/cluster'
 import { buildIsStale, run } from './lib/server'
 
 const port = Number(process.env.PORT) || 3000
@@ -16,8 +16,19 @@ if (buildIsStale()) {
   if (code !== 0) process.exit(code)
 }
 
+// Our own handlers first, so the PostgreSQL helper leaves stopping to us (instances, then the database).
+let cluster: BandlightCluster | null = null
+let stopping = false
+async function stop(code: number) {
+  if (stopping) return
+  stopping = true
+  await cluster?.stop()
+  process.exit(code)
+}
+for (const sig of ['SIGINT', 'SIGTERM'] as const) process.on(sig, () => void stop(0))
+
 console.log('Starting a throw-away PostgreSQL cluster, the demo data and two server instances…')
-const cluster = await startBandlightCluster({ instances: 2, ports: [port, port + 1], mailPort: 2525 })
+cluster = await startBandlightCluster({ instances: 2, ports: [port, port + 1], mailPort: 2525 })
 console.log(`
   Bandlight cluster demo: two server instances on one PostgreSQL database
     instance 1   http://localhost:${port}
@@ -38,14 +49,6 @@ console.log(`
   Press Ctrl+C to stop.
 `)
 
-let stopping = false
-async function stop(code: number) {
-  if (stopping) return
-  stopping = true
-  await cluster.stop()
-  process.exit(code)
-}
-for (const sig of ['SIGINT', 'SIGTERM'] as const) process.on(sig, () => void stop(0))
 for (const [i, server] of cluster.servers.entries()) {
   server.on('exit', (code) => {
     if (!stopping) console.error(`instance ${i + 1} exited (${code}); stopping the demo`)

@@ -58,7 +58,9 @@ export async function startBandlightCluster(opts: ClusterOptions = {}): Promise<
   try {
     const databaseUrl = await pg.createDatabase('bandlight')
     const mailbox = path.join(dir, 'mailbox')
+    // The port asked for, or any free one when it is taken (another demo's mail server).
     sink = await startMailSink({ port: opts.mailPort ?? 0, dir: mailbox, quiet: true })
+      .catch(err => opts.mailPort ? startMailSink({ port: 0, dir: mailbox, quiet: true }) : Promise.reject(err))
     const env: NodeJS.ProcessEnv = {
       ...process.env,
       DATABASE_URL: databaseUrl,

@@ -86,6 +86,15 @@ export async function startPostgres(opts: { tune?: boolean, maxConnections?: num
     fs.rmSync(dir, { recursive: true, force: true })
   }
   process.once('exit', stopSync)
+  // Interrupted (Ctrl+C) with nobody else listening: stop the cluster before going. A script that
+  // stops it its own way registers its handlers before starting it.
+  const onSignal = (signal: NodeJS.Signals) => {
+    stopSync()
+    process.exit(signal === 'SIGINT' ? 130 : 143)
+  }
+  for (const sig of ['SIGINT', 'SIGTERM'] as const) {
+    if (process.listenerCount(sig) === 0) process.once(sig, onSignal)
+  }
 
   const url = (database: string) => `postgres://${USER}@127.0.0.1:${port}/${database}`
   return {
@@ -114,6 +123,8 @@ export async function startPostgres(opts: { tune?: boolean, maxConnections?: num
       })
       stopped = true
       process.removeListener('exit', stopSync)
+      process.removeListener('SIGINT', onSignal)
+      process.removeListener('SIGTERM', onSignal)
       fs.rmSync(dir, { recursive: true, force: true })
     },
   }
