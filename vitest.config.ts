@@ -5,6 +5,7 @@ import { defineConfig } from 'vitest/config'
 //   integration — server modules against a temporary SQLite database (and a local SMTP server), no HTTP
 //   api  — HTTP against the built server (started by scripts/test-server.ts)
 //   e2e  — real Chromium (Debian's /usr/bin/chromium) against the same server
+//   cluster — two built servers on one throw-away PostgreSQL (started by scripts/test-cluster.ts)
 export default defineConfig({
   test: {
     projects: [
@@ -31,6 +32,16 @@ export default defineConfig({
           include: ['tests/api/**/*.test.ts'],
           environment: 'node',
           testTimeout: 30_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        test: {
+          name: 'cluster',
+          include: ['tests/cluster/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 120_000,
           hookTimeout: 60_000,
           fileParallelism: false,
         },

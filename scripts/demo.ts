@@ -10,11 +10,12 @@ import path from 'node:path'
 import { startMailSink, type MailSink } from './lib/mailSink'
 import { buildIsStale, run, startServer } from './lib/server'
 import { DEFAULT_DATABASE_URL } from '#server/utils/config'
-import { databasePath } from '#server/utils/db'
+import { databaseDialect, databasePath } from '#server/utils/db'
 
 const port = Number(process.env.PORT) || 3000
 const databaseUrl = process.env.DATABASE_URL || DEFAULT_DATABASE_URL
-const dbFile = databasePath(databaseUrl)
+// A PostgreSQL DATABASE_URL works too (the secret and the mailbox then go to ./data).
+const dbFile = databaseDialect(databaseUrl) === 'sqlite' ? databasePath(databaseUrl) : ':memory:'
 
 if (buildIsStale()) {
   console.log('Building Bandlight (the sources are newer than .output)…')
@@ -48,7 +49,7 @@ const server = await startServer(env, port)
 
 console.log(`
   Bandlight demo is running at http://localhost:${port}
-  Database: ${dbFile}
+  Database: ${dbFile === ':memory:' ? databaseUrl.replace(/\/\/([^:@/]+):[^@/]*@/, '//$1:***@') : dbFile}
   Mail: ${sink ? `local mail server on 127.0.0.1:${sink.port}, messages in ${sink.dir} (admin → Mail)` : `sent to ${process.env.SMTP_URL}`}
 
   Demo accounts (password for each: bandlight-demo — demo only, change them on a real installation)

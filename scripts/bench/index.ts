@@ -5,6 +5,7 @@
  */
 import { runCertificatesBench } from './certificates'
 import { runEngineBench } from './engine'
+import { runListingBench } from './listing'
 import { runMailBench } from './mail'
 import { runRegistersBench } from './registers'
 import { runRunsBench } from './runs'
@@ -22,3 +23,5 @@ console.log('')
 await runMailBench({ quick })
 console.log('')
 await runServerBench({ quick })
+console.log('')
+await runListingBench({ quick })

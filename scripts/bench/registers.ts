@@ -19,6 +19,46 @@ export interface RegistersBenchResult {
   requests: { name: string, ms: number, total: number }[]
 }
 
+/**
+ * Invented instruments `start` … `end − 1` for the list benchmarks (this one and ./listing.ts):
+ * scrambled serials (insertion order is not serial order), five makers, 40 models, five kinds,
+ * due dates over two years, every 50th archived.
+ */
+export function benchInstrumentRows(start: number, end: number, organizationIds: readonly number[]): CreationAttributes<InstrumentRow>[] {
+  const makers = ['Calderon Optics', 'Norrvik Instruments', 'Tessaly Thermal', 'Ardent Pyrometry', 'Quillfield Sensing']
+  const kinds = ['spot-infrared', 'fixed-pyrometer', 'fibre-optic-pyrometer', 'ratio-pyrometer', 'thermal-imager'] as const
+  const statuses = ['active', 'active', 'active', 'out-of-service', 'retired'] as const
+  const batch: CreationAttributes<InstrumentRow>[] = []
+  for (let i = start; i < end; i++) {
+    const serial = `SN${((i * 7919) % 1_000_003).toString(36).toUpperCase().padStart(5, '0')}-${i}`
+    const month = (i % 24) + 1
+    batch.push({
+      organizationId: organizationIds[i % organizationIds.length]!,
+      serial,
+      assetTag: `AT-${String(i).padStart(6, '0')}`,
+      maker: makers[i % makers.length]!,
+      model: `M-${i % 40}`,
+      kind: kinds[i % kinds.length]!,
+      bandLambda1Um: 8,
+      bandLambda2Um: 14,
+      spectralResponseId: null,
+      distanceToSpot: 12,
+      rangeMinK: 253.15,
+      rangeMaxK: 773.15,
+      defaultEmissivity: 0.95,
+      resolutionK: 0.1,
+      accuracy: { kind: 'greaterOf' as const, a: 1, b: 1 },
+      calibrationIntervalMonths: 12,
+      status: statuses[i % statuses.length]!,
+      nextDueDate: `${2026 + Math.floor((month - 1) / 12)}-${String(((month - 1) % 12) + 1).padStart(2, '0')}-${String((i % 28) + 1).padStart(2, '0')}`,
+      photoUploadId: null,
+      notes: null,
+      archived: i % 50 === 0,
+    })
+  }
+  return batch
+}
+
 export async function runRegistersBench(opts: { quick?: boolean, rows?: number } = {}): Promise<RegistersBenchResult> {
   const count = opts.rows ?? (opts.quick ? 20_000 : 100_000)
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-bench-'))
@@ -33,41 +73,11 @@ export async function runRegistersBench(opts: { quick?: boolean, rows?: number }
   try {
     await migrate()
     const orgs = await Organization.bulkCreate(Array.from({ length: 50 }, (_, i) => ({ name: `Bench Customer ${i + 1}`, contactEmails: [] })))
-    const makers = ['Calderon Optics', 'Norrvik Instruments', 'Tessaly Thermal', 'Ardent Pyrometry', 'Quillfield Sensing']
-    const kinds = ['spot-infrared', 'fixed-pyrometer', 'fibre-optic-pyrometer', 'ratio-pyrometer', 'thermal-imager'] as const
-    const statuses = ['active', 'active', 'active', 'out-of-service', 'retired'] as const
+    const orgIds = orgs.map(o => o.id)
     const t0 = performance.now()
     const CHUNK = 2000
     for (let start = 0; start < count; start += CHUNK) {
-      const batch: CreationAttributes<InstrumentRow>[] = []
-      for (let i = start; i < Math.min(count, start + CHUNK); i++) {
-        // A scrambled serial so that insertion order is not serial order.
-        const serial = `SN${((i * 7919) % 1_000_003).toString(36).toUpperCase().padStart(5, '0')}-${i}`
-        const month = (i % 24) + 1
-        batch.push({
-          organizationId: orgs[i % orgs.length]!.id,
-          serial,
-          assetTag: `AT-${String(i).padStart(6, '0')}`,
-          maker: makers[i % makers.length]!,
-          model: `M-${i % 40}`,
-          kind: kinds[i % kinds.length]!,
-          bandLambda1Um: 8,
-          bandLambda2Um: 14,
-          spectralResponseId: null,
-          distanceToSpot: 12,
-          rangeMinK: 253.15,
-          rangeMaxK: 773.15,
-          defaultEmissivity: 0.95,
-          resolutionK: 0.1,
-          accuracy: { kind: 'greaterOf' as const, a: 1, b: 1 },
-          calibrationIntervalMonths: 12,
-          status: statuses[i % statuses.length]!,
-          nextDueDate: `${2026 + Math.floor((month - 1) / 12)}-${String(((month - 1) % 12) + 1).padStart(2, '0')}-${String((i % 28) + 1).padStart(2, '0')}`,
-          photoUploadId: null,
-          notes: null,
-          archived: i % 50 === 0,
-        })
-      }
+      const batch = benchInstrumentRows(start, Math.min(count, start + CHUNK), orgIds)
       await sequelize.transaction(async t => Instrument.bulkCreate(batch, { transaction: t }))
     }
     const insertMs = performance.now() - t0

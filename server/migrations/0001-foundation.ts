@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { createPgGuard, dialectOf, dropGuard } from './lib'
 
 /** Organizations, users and the audit trail. */
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
@@ -45,7 +46,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.addIndex('audit_events', ['at'])
   await qi.addIndex('audit_events', ['userId'])
 
-  // The audit trail is append-only, whatever code runs against the file.
+  // The audit trail is append-only, whatever code runs against the database.
+  if (dialectOf(qi) === 'postgres') {
+    await createPgGuard(qi, { name: 'audit_events_no_update', table: 'audit_events', event: 'UPDATE', message: 'audit events cannot be changed' })
+    await createPgGuard(qi, { name: 'audit_events_no_delete', table: 'audit_events', event: 'DELETE', message: 'audit events cannot be deleted' })
+    return
+  }
   await qi.sequelize.query(`CREATE TRIGGER audit_events_no_update BEFORE UPDATE ON audit_events
     BEGIN SELECT RAISE(ABORT, 'audit events cannot be changed'); END`)
   await qi.sequelize.query(`CREATE TRIGGER audit_events_no_delete BEFORE DELETE ON audit_events
@@ -53,8 +59,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS audit_events_no_delete')
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS audit_events_no_update')
+  await dropGuard(qi, 'audit_events_no_delete', 'audit_events')
+  await dropGuard(qi, 'audit_events_no_update', 'audit_events')
   await qi.dropTable('audit_events')
   await qi.dropTable('users')
   await qi.dropTable('organizations')

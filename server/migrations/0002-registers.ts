@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { dialectOf } from './lib'
 
 /**
  * The registers: uploads, spectral responsivity tables, blackbody sources, reference
@@ -8,9 +9,12 @@ import { DataTypes, type QueryInterface } from 'sequelize'
  * declared `COLLATE NOCASE`, so `LIKE 'abc%'` (SQLite's LIKE ignores ASCII case) and ORDER BY
  * both use their indexes (SQLite query planner, "The LIKE optimization").
  */
-const NOCASE = (n: number) => `VARCHAR(${n}) COLLATE NOCASE`
+const NOCASE_SQLITE = (n: number) => `VARCHAR(${n}) COLLATE NOCASE`
 
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
+  // PostgreSQL has no NOCASE: plain text columns, sorted by the database's collation, searched through
+  // lower(column) with the indexes of migration 0011.
+  const NOCASE = dialectOf(qi) === 'postgres' ? (n: number) => DataTypes.STRING(n) : NOCASE_SQLITE
   const stamps = {
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     createdAt: { type: DataTypes.DATE, allowNull: false },

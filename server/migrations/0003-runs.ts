@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { createPgGuard, dialectOf, dropGuard } from './lib'
 
 /**
  * Calibration procedures (versioned), runs, their points and the revisions of submitted runs.
@@ -100,6 +101,11 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     after: { type: DataTypes.JSON, allowNull: true },
   })
   await qi.addIndex('run_revisions', ['runId', 'at'], { name: 'run_revisions_run' })
+  if (dialectOf(qi) === 'postgres') {
+    await createPgGuard(qi, { name: 'run_revisions_no_update', table: 'run_revisions', event: 'UPDATE', message: 'run revisions cannot be changed' })
+    await createPgGuard(qi, { name: 'run_revisions_no_delete', table: 'run_revisions', event: 'DELETE', message: 'run revisions cannot be deleted' })
+    return
+  }
   await qi.sequelize.query(`CREATE TRIGGER run_revisions_no_update BEFORE UPDATE ON run_revisions
     BEGIN SELECT RAISE(ABORT, 'run revisions cannot be changed'); END`)
   await qi.sequelize.query(`CREATE TRIGGER run_revisions_no_delete BEFORE DELETE ON run_revisions
@@ -107,8 +113,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS run_revisions_no_delete')
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS run_revisions_no_update')
+  await dropGuard(qi, 'run_revisions_no_delete', 'run_revisions')
+  await dropGuard(qi, 'run_revisions_no_update', 'run_revisions')
   await qi.dropTable('run_revisions')
   await qi.dropTable('run_points')
   await qi.dropTable('calibration_runs')

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { createPgGuard, dialectOf, dropGuard, pgAnyChanged } from './lib'
 
 /**
  * Laboratory settings (one row), certificate counters (one per year of issue) and certificates.
@@ -81,12 +82,13 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.addIndex('certificates', ['issuedAt'], { name: 'certificates_issued' })
   await qi.addIndex('certificates', ['pdfSha256'], { name: 'certificates_sha256' })
 
-  const q = (sql: string) => qi.sequelize.query(sql)
-  await q(`CREATE TRIGGER certificates_no_delete BEFORE DELETE ON certificates
-    BEGIN SELECT RAISE(ABORT, 'certificates cannot be deleted'); END`)
   const fixed = ['number', 'baseNumber', 'revision', 'counterYear', 'sequence', 'runId', 'instrumentId', 'organizationId', 'instrumentSerial', 'calibrationDate',
     'issueDate', 'issuedAt', 'signedBy', 'signatoryName', 'signatoryFunction', 'signatureMeaning', 'verificationCode', 'pdfSha256', 'pdfSize', 'content',
     'amendsId', 'amendmentReason', 'createdAt']
+  if (dialectOf(qi) === 'postgres') return guardsPg(qi, fixed)
+  const q = (sql: string) => qi.sequelize.query(sql)
+  await q(`CREATE TRIGGER certificates_no_delete BEFORE DELETE ON certificates
+    BEGIN SELECT RAISE(ABORT, 'certificates cannot be deleted'); END`)
   await q(`CREATE TRIGGER certificates_fixed BEFORE UPDATE ON certificates
     WHEN OLD.status <> 'valid' OR NEW.status NOT IN ('valid', 'superseded', 'withdrawn')
       OR ${fixed.map(c => `NEW."${c}" IS NOT OLD."${c}"`).join(' OR ')}
@@ -112,11 +114,35 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     BEGIN SELECT RAISE(ABORT, 'the points of a run with a certificate cannot be deleted'); END`)
 }
 
+/** The same guards on PostgreSQL (PL/pgSQL functions; see ./lib.ts). */
+async function guardsPg(qi: QueryInterface, fixed: string[]): Promise<void> {
+  const certified = (col: string) => `EXISTS (SELECT 1 FROM certificates c WHERE c."runId" = ${col})`
+  const guards = [
+    { name: 'certificates_no_delete', table: 'certificates', event: 'DELETE', message: 'certificates cannot be deleted' },
+    { name: 'certificates_fixed', table: 'certificates', event: 'UPDATE', message: 'an issued certificate cannot change: amend or withdraw it',
+      when: `OLD.status <> 'valid' OR NEW.status NOT IN ('valid', 'superseded', 'withdrawn') OR ${pgAnyChanged(fixed)}` },
+    { name: 'certificate_counters_no_delete', table: 'certificate_counters', event: 'DELETE', message: 'certificate counters cannot be deleted' },
+    { name: 'certificate_counters_step', table: 'certificate_counters', event: 'UPDATE', message: 'certificate numbers advance by one: no gaps, no reuse',
+      when: 'NEW.year IS DISTINCT FROM OLD.year OR NEW."lastSequence" IS DISTINCT FROM OLD."lastSequence" + 1' },
+    { name: 'certificate_counters_start', table: 'certificate_counters', event: 'INSERT', message: 'a certificate counter starts at 1',
+      when: 'NEW."lastSequence" IS DISTINCT FROM 1' },
+    { name: 'calibration_runs_certified_no_update', table: 'calibration_runs', event: 'UPDATE', message: 'a run with a certificate cannot change', when: certified('OLD.id') },
+    { name: 'calibration_runs_certified_no_delete', table: 'calibration_runs', event: 'DELETE', message: 'a run with a certificate cannot be deleted', when: certified('OLD.id') },
+    { name: 'run_points_certified_no_update', table: 'run_points', event: 'UPDATE', message: 'the points of a run with a certificate cannot change',
+      when: `${certified('OLD."runId"')} OR ${certified('NEW."runId"')}` },
+    { name: 'run_points_certified_no_insert', table: 'run_points', event: 'INSERT', message: 'a run with a certificate takes no new points', when: certified('NEW."runId"') },
+    { name: 'run_points_certified_no_delete', table: 'run_points', event: 'DELETE', message: 'the points of a run with a certificate cannot be deleted', when: certified('OLD."runId"') },
+  ] as const
+  for (const g of guards) await createPgGuard(qi, g)
+}
+
+const TABLE_OF = (name: string) => name.startsWith('run_points') ? 'run_points' : name.startsWith('calibration_runs') ? 'calibration_runs' : name.startsWith('certificate_counters') ? 'certificate_counters' : 'certificates'
+
 const TRIGGERS = ['run_points_certified_no_delete', 'run_points_certified_no_insert', 'run_points_certified_no_update', 'calibration_runs_certified_no_delete',
   'calibration_runs_certified_no_update', 'certificate_counters_start', 'certificate_counters_step', 'certificate_counters_no_delete', 'certificates_fixed', 'certificates_no_delete']
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  for (const name of TRIGGERS) await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${name}`)
+  for (const name of TRIGGERS) await dropGuard(qi, name, TABLE_OF(name))
   await qi.dropTable('certificates')
   await qi.dropTable('certificate_counters')
   await qi.dropTable('lab_settings')

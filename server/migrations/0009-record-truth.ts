@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { allowNull, dialectOf } from './lib'
+import { allowNull, createPgGuard, dialectOf, dropGuard } from './lib'
 
 /**
  * A record that tells the truth (ISO/IEC 17025 7.1, 7.4, 7.5, 7.8):
@@ -42,6 +42,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   // Who changed each existing run's data: its technician and everyone who recorded a revision.
   // (Runs with a certificate are guarded by a trigger; it is set aside for this one fill.)
   if (sqlite) await q('DROP TRIGGER IF EXISTS calibration_runs_certified_no_update')
+  else await q('ALTER TABLE calibration_runs DISABLE TRIGGER calibration_runs_certified_no_update')
   const [runs] = await q('SELECT id, "technicianId" FROM calibration_runs') as [{ id: number, technicianId: number }[], unknown]
   const [revs] = await q('SELECT DISTINCT "runId", "userId" FROM run_revisions') as [{ runId: number, userId: number }[], unknown]
   for (const r of runs) {
@@ -51,6 +52,9 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   if (sqlite) {
     await q(`CREATE TRIGGER calibration_runs_certified_no_update BEFORE UPDATE ON calibration_runs WHEN EXISTS (SELECT 1 FROM certificates c WHERE c.runId = OLD.id)
     BEGIN SELECT RAISE(ABORT, 'a run with a certificate cannot change'); END`)
+  }
+  else {
+    await q('ALTER TABLE calibration_runs ENABLE TRIGGER calibration_runs_certified_no_update')
   }
 
   await qi.addColumn('run_points', 'voidedAt', { type: DataTypes.DATE, allowNull: true })
@@ -79,6 +83,11 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     await q(`CREATE TRIGGER item_receipts_certified_no_delete BEFORE DELETE ON item_receipts WHEN EXISTS (SELECT 1 FROM certificates c WHERE c.runId = OLD.runId)
     BEGIN SELECT RAISE(ABORT, 'the receipt of a run with a certificate cannot be deleted'); END`)
   }
+  else {
+    const certified = 'EXISTS (SELECT 1 FROM certificates c WHERE c."runId" = OLD."runId")'
+    await createPgGuard(qi, { name: 'item_receipts_certified_no_update', table: 'item_receipts', event: 'UPDATE', message: 'the receipt of a run with a certificate cannot change', when: certified })
+    await createPgGuard(qi, { name: 'item_receipts_certified_no_delete', table: 'item_receipts', event: 'DELETE', message: 'the receipt of a run with a certificate cannot be deleted', when: certified })
+  }
 
   const requestColumns = {
     requirements: { type: DataTypes.TEXT, allowNull: true },
@@ -99,8 +108,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS item_receipts_certified_no_update')
-  await qi.sequelize.query('DROP TRIGGER IF EXISTS item_receipts_certified_no_delete')
+  await dropGuard(qi, 'item_receipts_certified_no_update', 'item_receipts')
+  await dropGuard(qi, 'item_receipts_certified_no_delete', 'item_receipts')
   await qi.dropTable('item_receipts')
   throw new Error('0009 is not reversible beyond dropping item_receipts: restore a backup instead')
 }

@@ -12,6 +12,7 @@ import * as m0007 from './0007-sessions-throttles'
 import * as m0008 from './0008-lab-time-zone'
 import * as m0009 from './0009-record-truth'
 import * as m0010 from './0010-reference-basis'
+import * as m0011 from './0011-shared-state'
 import * as m0012 from './0012-certificate-dcc'
 
 export const migrations = [
@@ -25,5 +26,6 @@ export const migrations = [
   { name: '0008-lab-time-zone', ...m0008 },
   { name: '0009-record-truth', ...m0009 },
   { name: '0010-reference-basis', ...m0010 },
+  { name: '0011-shared-state', ...m0011 },
   { name: '0012-certificate-dcc', ...m0012 },
 ]

@@ -55,3 +55,49 @@ export async function allowNull(qi: QueryInterface, table: string, columns: read
     await q('PRAGMA foreign_keys = ON')
   }
 }
+
+/** A row-level guard: a trigger that refuses a change to a table (PostgreSQL form). */
+export interface PgGuard {
+  /** Name of the trigger and of its PL/pgSQL function. */
+  name: string
+  table: string
+  event: 'INSERT' | 'UPDATE' | 'DELETE'
+  /** When to refuse, in SQL over OLD/NEW (subqueries allowed); omitted = always. */
+  when?: string
+  message: string
+}
+
+/**
+ * PostgreSQL's counterpart of SQLite's `CREATE TRIGGER … BEGIN SELECT RAISE(ABORT, '…'); END`:
+ * a PL/pgSQL function that raises the message when `when` holds, and a BEFORE … FOR EACH ROW
+ * trigger that calls it. (A PostgreSQL trigger's own WHEN clause cannot hold a subquery, so the
+ * condition lives in the function.)
+ */
+export async function createPgGuard(qi: QueryInterface, g: PgGuard): Promise<void> {
+  const message = g.message.replace(/'/g, "''")
+  await qi.sequelize.query(`CREATE OR REPLACE FUNCTION "${g.name}"() RETURNS trigger LANGUAGE plpgsql AS $guard$
+BEGIN
+  IF ${g.when ?? 'TRUE'} THEN
+    RAISE EXCEPTION '${message}' USING ERRCODE = 'restrict_violation';
+  END IF;
+  IF TG_OP = 'DELETE' THEN RETURN OLD; END IF;
+  RETURN NEW;
+END
+$guard$`)
+  await qi.sequelize.query(`CREATE TRIGGER "${g.name}" BEFORE ${g.event} ON "${g.table}" FOR EACH ROW EXECUTE FUNCTION "${g.name}"()`)
+}
+
+/** Drop a guard on either engine (SQLite: the trigger; PostgreSQL: the trigger and its function). */
+export async function dropGuard(qi: QueryInterface, name: string, table: string): Promise<void> {
+  if (dialectOf(qi) === 'postgres') {
+    await qi.sequelize.query(`DROP TRIGGER IF EXISTS "${name}" ON "${table}"`)
+    await qi.sequelize.query(`DROP FUNCTION IF EXISTS "${name}"()`)
+    return
+  }
+  await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${name}`)
+}
+
+/** PostgreSQL: a condition true when any of the columns differs between OLD and NEW (compared as text, so JSON columns compare too). */
+export function pgAnyChanged(columns: readonly string[]): string {
+  return columns.map(c => `NEW."${c}"::text IS DISTINCT FROM OLD."${c}"::text`).join(' OR ')
+}

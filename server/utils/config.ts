@@ -20,7 +20,15 @@ export interface BandlightConfig {
   databaseUrl: string
   /** Log every SQL statement (DB_LOG=1). */
   databaseLog: boolean
-  /** Where stored files live (BANDLIGHT_DATA_DIR); null = `files/` beside the SQLite file. */
+  /** Most connections one instance opens to PostgreSQL (DB_POOL_MAX). */
+  databasePoolMax: number
+  /**
+   * Where stored files (uploads, certificate PDFs) live (FILE_STORAGE): `directory` (under
+   * {@link dataDir}) or `database` (table `file_contents`); null = `directory` on SQLite,
+   * `database` on PostgreSQL.
+   */
+  fileStorage: 'directory' | 'database' | null
+  /** Where stored files live (BANDLIGHT_DATA_DIR); null = `files/` beside the SQLite file (`data/files` on PostgreSQL). */
   dataDir: string | null
   /** Largest accepted upload, bytes (UPLOAD_MAX_BYTES). */
   uploadMaxBytes: number
@@ -72,11 +80,19 @@ function nonNegative(name: string, fallback: number): number {
   return Number.isFinite(v) && v >= 0 ? v : fallback
 }
 
+function fileStorage(v: string | undefined): BandlightConfig['fileStorage'] {
+  if (v === undefined) return null
+  if (v === 'directory' || v === 'database') return v
+  throw new Error(`FILE_STORAGE must be "directory" or "database" (got "${v}")`)
+}
+
 function read(): BandlightConfig {
   const workers = Number(raw('MC_WORKERS'))
   return {
     databaseUrl: raw('DATABASE_URL') ?? DEFAULT_DATABASE_URL,
     databaseLog: raw('DB_LOG') === '1',
+    databasePoolMax: Math.floor(positive('DB_POOL_MAX', 10)),
+    fileStorage: fileStorage(raw('FILE_STORAGE')),
     dataDir: raw('BANDLIGHT_DATA_DIR') ?? null,
     uploadMaxBytes: Math.floor(positive('UPLOAD_MAX_BYTES', DEFAULT_UPLOAD_MAX_BYTES)),
     bodyMaxBytes: Math.floor(positive('BODY_MAX_BYTES', 1024 * 1024)),

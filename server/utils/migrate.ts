@@ -20,8 +20,18 @@ export function migrator() {
   })
 }
 
-/** Apply every pending migration; returns the names applied. */
+/** The key of the PostgreSQL advisory lock under which one instance at a time migrates (any constant). */
+const MIGRATION_LOCK = 7_301_914
+
+/**
+ * Apply every pending migration; returns the names applied. On PostgreSQL, instances that start
+ * together take turns (a transaction-scoped advisory lock, held on a connection of its own while
+ * the migrations run): the first applies them, the others then find nothing pending.
+ */
 export async function migrate(): Promise<string[]> {
-  const applied = await migrator().up()
-  return applied.map(m => m.name)
+  if (sequelize.getDialect() !== 'postgres') return (await migrator().up()).map(m => m.name)
+  return sequelize.transaction(async (t) => {
+    await sequelize.query(`SELECT pg_advisory_xact_lock(${MIGRATION_LOCK})`, { transaction: t })
+    return (await migrator().up()).map(m => m.name)
+  })
 }

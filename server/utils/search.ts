@@ -5,8 +5,10 @@
  * so no input is ever part of SQL text. Pass `filter.options()` (`where` and `bind`) to
  * `findAll` / `count`.
  *
- * Text search is case-insensitive and takes `%`, `_` and `\` literally (`LIKE … ESCAPE '\'`; on
- * PostgreSQL `ILIKE`). Input with a NUL character never gets here (server/utils/validation.ts
+ * Text search is case-insensitive and takes `%`, `_` and `\` literally (`LIKE … ESCAPE '\'`). On
+ * SQLite the searched columns are `COLLATE NOCASE` and LIKE ignores ASCII case; on PostgreSQL the
+ * condition reads `lower(column) LIKE lower(pattern)`, which the `lower(…)` indexes of migration
+ * 0011 serve (prefix: B-tree `text_pattern_ops`; contains: trigram). Input with a NUL character never gets here (server/utils/validation.ts
  * refuses it).
  */
 import { Op, literal, type WhereOptions } from 'sequelize'
@@ -23,8 +25,11 @@ export function quotedColumn(alias: string, column: string): string {
   return `${qi.quoteIdentifier(alias)}.${qi.quoteIdentifier(column)}`
 }
 
-function likeOperator(): string {
-  return sequelize.getDialect() === 'postgres' ? 'ILIKE' : 'LIKE'
+/** `column LIKE pattern`, case-insensitive on both engines (see the module's note). */
+function likeCondition(column: string, pattern: string): string {
+  return sequelize.getDialect() === 'postgres'
+    ? `lower(${column}) LIKE lower(${pattern}) ESCAPE '\\'`
+    : `${column} LIKE ${pattern} ESCAPE '\\'`
 }
 
 export class ListFilter {
@@ -58,8 +63,7 @@ export class ListFilter {
   text(alias: string, columns: readonly string[], q: string, mode: 'prefix' | 'contains' = 'prefix'): this {
     const pattern = (mode === 'contains' ? '%' : '') + escapeLike(q) + '%'
     const p = this.param(pattern)
-    const op = likeOperator()
-    this.conditions.push({ [Op.or]: columns.map(c => literal(quotedColumn(alias, c) + ' ' + op + ' ' + p + " ESCAPE '\\'")) })
+    this.conditions.push({ [Op.or]: columns.map(c => literal(likeCondition(quotedColumn(alias, c), p))) })
     return this
   }
 

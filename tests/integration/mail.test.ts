@@ -1,16 +1,17 @@
-// Reminders and the outbox against a temporary SQLite database and a real SMTP server
+// Reminders and the outbox against a temporary database (SQLite, or PostgreSQL under --db=postgres) and a real SMTP server
 // (scripts/lib/mailSink.ts on a free 127.0.0.1 port). Server modules are imported after
 // DATABASE_URL is set, because server/utils/db.ts opens the database on import.
 import fs from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { testDatabaseUrl } from '../support/database'
 import { addDays } from '../../shared/mail/milestones'
 import { startMailSink, type MailSink, type StoredMessage } from '../../scripts/lib/mailSink'
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-mail-it-'))
 const mailbox = path.join(dir, 'mailbox')
-process.env.DATABASE_URL = `sqlite:${path.join(dir, 'mail.sqlite')}`
+process.env.DATABASE_URL = await testDatabaseUrl(dir, 'mail')
 process.env.MAIL_TOKEN_SECRET = 'integration-test-secret-0123456789abcdef'
 process.env.PUBLIC_BASE_URL = 'https://lab.bandlight.test'
 delete process.env.LAB_NAME

@@ -1,12 +1,13 @@
 // Rate limits counted in the database (server/utils/rateLimit.ts, server/utils/throttle.ts), against
-// a temporary SQLite file. Time is passed in, so windows are crossed without waiting.
+// a temporary database (SQLite, or PostgreSQL under --db=postgres). Time is passed in, so windows are crossed without waiting.
 import fs from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { testDatabaseUrl } from '../support/database'
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-throttle-it-'))
-process.env.DATABASE_URL = `sqlite:${path.join(dir, 'throttle.sqlite')}`
+process.env.DATABASE_URL = await testDatabaseUrl(dir, 'throttle')
 
 const { resetConfig } = await import('../../server/utils/config')
 resetConfig()

@@ -21,7 +21,15 @@ export interface Reply<T = any> { // eslint-disable-line @typescript-eslint/no-e
 
 export class Client {
   private cookies = new Map<string, string>()
-  constructor(private readonly extraHeaders: Record<string, string> = {}) {}
+  /** `base`: the server this client talks to (another instance in the cluster tests). */
+  constructor(private readonly extraHeaders: Record<string, string> = {}, private readonly base: string = BASE_URL) {}
+
+  /** The same session (cookies and headers) against another server instance. */
+  at(base: string): Client {
+    const c = new Client(this.extraHeaders, base)
+    c.cookies = this.cookies
+    return c
+  }
 
   async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Reply<T>> { // eslint-disable-line @typescript-eslint/no-explicit-any
     const h: Record<string, string> = { accept: 'application/json', ...this.extraHeaders, ...headers }
@@ -31,7 +39,7 @@ export class Client {
       payload = typeof body === 'string' ? body : JSON.stringify(body)
       h['content-type'] ??= 'application/json'
     }
-    const res = await fetch(BASE_URL + path, { method, headers: h, body: payload, redirect: 'manual' })
+    const res = await fetch(this.base + path, { method, headers: h, body: payload, redirect: 'manual' })
     for (const c of res.headers.getSetCookie()) {
       const [pair] = c.split(';')
       const i = pair!.indexOf('=')

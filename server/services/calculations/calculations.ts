@@ -109,15 +109,15 @@ export function monteCarloNow(req: MonteCarloRequest) {
 }
 
 /** Start the Monte Carlo check of a reading as a job the caller polls; an impossible point is refused now (400). */
-export function startMonteCarloJob(user: SessionUser, req: MonteCarloRequest) {
+export async function startMonteCarloJob(user: SessionUser, req: MonteCarloRequest) {
   gumForReading(req)
-  const job = startJob(user.id, req.trials, progress => runReadingMonteCarlo(req, progress))
+  const job = await startJob(user.id, req.trials, progress => runReadingMonteCarlo(req, progress))
   return { id: job.id, status: job.status, done: job.done, total: job.total }
 }
 
 /** A job's progress and, when done, its result; 404 unless it exists and is the user's. */
-export function monteCarloJobStatus(user: SessionUser, id: string) {
-  const job = findJob(id, user.id)
+export async function monteCarloJobStatus(user: SessionUser, id: string) {
+  const job = await findJob(id, user.id)
   if (!job) notFound('calculation job')
   return { id: job.id, status: job.status, done: job.done, total: job.total, result: job.result ?? null, error: job.error ?? null }
 }

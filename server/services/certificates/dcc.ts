@@ -24,9 +24,9 @@ import { certificateFileName, scopedCertificate } from './certificates'
 import type { CertificateData } from './pdf'
 
 /** Build the DCC and store it by its SHA-256 (once, like uploads and the PDF). */
-export async function renderAndStoreDcc(input: DccInput): Promise<{ sha256: string, size: number }> {
+export async function renderAndStoreDcc(input: DccInput, t?: Transaction): Promise<{ sha256: string, size: number }> {
   const xml = buildDcc(input)
-  return { sha256: await storeUploadBytes(xml), size: xml.length }
+  return { sha256: await storeUploadBytes(xml, t), size: xml.length }
 }
 
 /** The parts of `content` the DCC states; a revision stored with less cannot have a DCC built later. */

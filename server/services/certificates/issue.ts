@@ -14,7 +14,7 @@
  */
 import crypto from 'node:crypto'
 import type { H3Event } from 'h3'
-import type { Transaction } from 'sequelize'
+import { QueryTypes, type Transaction } from 'sequelize'
 import { SIGNATURE_MEANING } from '#shared/certificates/constants'
 import { addMonths, counterYear, formatCertificateNumber, revisionNumber, verificationCodeFrom } from '#shared/certificates/numbers'
 import type { CertificateAmendInput, CertificateIssueInput, CertificateReopenInput, CertificateWithdrawInput } from '#shared/schemas/certificate'
@@ -28,6 +28,7 @@ import type { LabSettings } from '#server/models/LabSettings'
 import { RunPoint } from '#server/models/RunPoint'
 import { User } from '#server/models/User'
 import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
+import { onPostgres, sequelize } from '#server/utils/db'
 import { conflict, invalidInput, notFound, tooManyRequests, waitInWords } from '#server/utils/errors'
 import { passwordMatches } from '#server/utils/password'
 import { publicBaseUrl } from '#server/utils/publicUrl'
@@ -85,26 +86,40 @@ interface StoredFiles {
 }
 
 /**
- * Build and store (by SHA-256, like uploads) the files of one revision: the PDF, then the DCC
+ * Build and store (by SHA-256, like uploads, in the issuing transaction) the files of one revision: the PDF, then the DCC
  * (XML) from the same data with that PDF embedded, the replaced revision named as its previous
  * report, and the engine versions of the certified points.
  */
-async function renderAndStore(data: CertificateData, calibrationDate: string, previous: Certificate | null, points: readonly RunPoint[]): Promise<StoredFiles> {
+async function renderAndStore(t: Transaction, data: CertificateData, calibrationDate: string, previous: Certificate | null, points: readonly RunPoint[]): Promise<StoredFiles> {
   const pdf = await certificatePdf(data)
-  const pdfSha256 = await storeUploadBytes(pdf)
+  const pdfSha256 = await storeUploadBytes(pdf, t)
   const dcc = await renderAndStoreDcc({
     content: data,
     certificate: { number: data.number, calibrationDate, issueDate: data.dates.issued },
     pdf: { bytes: pdf, fileName: certificateFileName(data.number, 'pdf') },
     previousReport: previous ? { number: previous.number, pdfSha256: previous.pdfSha256 } : null,
     engineVersions: points.map(p => p.engineVersion),
-  })
+  }, t)
   return { pdfSha256, pdfSize: pdf.length, dccSha256: dcc.sha256, dccSize: dcc.size }
 }
 
-/** Allocate the next sequence of a counter, in the caller's transaction: gap-free, never reused. */
+/**
+ * Allocate the next sequence of a counter, in the caller's transaction: gap-free, never reused.
+ * SQLite: the transaction is BEGIN IMMEDIATE, so no other writer runs until it ends. PostgreSQL:
+ * the year's row is created if missing (INSERT … ON CONFLICT DO NOTHING, which waits for a
+ * concurrent creator) and then locked (SELECT … FOR UPDATE) until the transaction ends, so
+ * concurrent issues on any instance take consecutive numbers one after another.
+ */
 export async function nextSequenceIn(t: Transaction, year: number): Promise<number> {
-  const counter = await CertificateCounter.findByPk(year, { transaction: t })
+  if (onPostgres()) {
+    const [created] = await sequelize.query<{ year: number }>(
+      'INSERT INTO certificate_counters (year, "lastSequence") VALUES (:year, 1) ON CONFLICT (year) DO NOTHING RETURNING year',
+      { replacements: { year }, transaction: t, type: QueryTypes.SELECT },
+    )
+    if (created) return 1
+  }
+  // FOR UPDATE on PostgreSQL (SQLite has no row locks and needs none).
+  const counter = await CertificateCounter.findByPk(year, { transaction: t, lock: t.LOCK.UPDATE })
   if (!counter) {
     await CertificateCounter.create({ year, lastSequence: 1 }, { transaction: t })
     return 1
@@ -132,7 +147,8 @@ async function certificateCorrectedBy(t: Transaction | undefined, run: Calibrati
  * that corrects a certificate (a reopened revision) issues the amendment of that certificate.
  */
 export async function issueCertificateIn(t: Transaction, signer: Signer, runId: number, auditAction = 'issue'): Promise<Certificate> {
-  const run = await CalibrationRun.findByPk(runId, { transaction: t })
+  // Locked (PostgreSQL) so that two signatories issuing the same run at once cannot both pass the check below.
+  const run = await CalibrationRun.findByPk(runId, { transaction: t, lock: t.LOCK.UPDATE })
   if (!run) invalidInput({ runId: 'No run with this id' })
   if (run.status !== 'approved') invalidInput({ runId: 'Only an approved run can be certified: the run must be reviewed and approved first' })
   const existing = await Certificate.findOne({ where: { runId }, transaction: t })
@@ -160,7 +176,7 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
     signatory: { name: signer.user.name, function: fn, meaning: SIGNATURE_MEANING, signedAt: issuedAt.toISOString() },
     verification: { code, url: verificationUrl(number, code) },
   }
-  const files = await renderAndStore(data, run.calibrationDate, null, g.points)
+  const files = await renderAndStore(t, data, run.calibrationDate, null, g.points)
   const cert = await Certificate.create({
     number, baseNumber: number, revision: 0, counterYear: year, sequence, status: 'valid',
     runId: run.id, instrumentId: g.instrument.id, organizationId: g.organization.id, instrumentSerial: g.instrument.serial,
@@ -200,7 +216,7 @@ async function amendWithIn(t: Transaction, signer: Signer, old: Certificate, run
     signatory: { name: signer.user.name, function: fn, meaning: SIGNATURE_MEANING, signedAt: issuedAt.toISOString() },
     verification: { code, url: verificationUrl(number, code) },
   }
-  const files = await renderAndStore(data, run.calibrationDate, old, g.points)
+  const files = await renderAndStore(t, data, run.calibrationDate, old, g.points)
   const cert = await Certificate.create({
     number, baseNumber: old.baseNumber, revision, counterYear: old.counterYear, sequence: old.sequence, status: 'valid',
     runId: run.id, instrumentId: g.instrument.id, organizationId: g.organization.id, instrumentSerial: g.instrument.serial,

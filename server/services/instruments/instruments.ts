@@ -70,7 +70,7 @@ const INSTRUMENT_COLUMNS: CsvColumns = {
 const INSTRUMENT_EXPORT = [...Object.keys(INSTRUMENT_COLUMNS), 'id', 'organizationName', 'spectralResponseName', 'pastDue', 'archived'] as const
 
 export async function exportInstruments(event: H3Event, q: Omit<InstrumentQuery, 'page' | 'pageSize'>): Promise<string> {
-  const rows = await Instrument.findAll({ ...instrumentFilter(q).options(), order: instrumentOrder(q.sort, q.dir), limit: 200_000 })
+  const rows = await Instrument.findAll({ ...instrumentFilter(q).options(), order: instrumentOrder(q.sort, q.dir, !!q.q), limit: 200_000 })
   const dtos = await instrumentDTOs(rows)
   return sendCsv(event, 'instruments', csvFromRows(INSTRUMENT_EXPORT, dtos as unknown as Record<string, unknown>[]))
 }

@@ -7,10 +7,11 @@
  * serial) for a customer's list. The page is a LIMIT/OFFSET query ordered by the sort column and
  * then id (a stable order); the total is a separate COUNT over the same WHERE.
  */
-import { Op, type Order } from 'sequelize'
+import { Op, literal, type Order } from 'sequelize'
 import type { InstrumentQuery } from '#shared/schemas/registerQuery'
 import { Instrument } from '#server/models/Instrument'
-import { ListFilter } from '#server/utils/search'
+import { onPostgres } from '#server/utils/db'
+import { ListFilter, quotedColumn } from '#server/utils/search'
 
 export type InstrumentListOptions = Pick<InstrumentQuery, 'page' | 'pageSize' | 'sort' | 'dir'> & Partial<Pick<InstrumentQuery, 'q' | 'status' | 'kind' | 'organizationId' | 'dueBefore' | 'archived'>>
 
@@ -30,8 +31,18 @@ export function instrumentFilter(o: Omit<InstrumentListOptions, 'page' | 'pageSi
   return f
 }
 
-export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir']): Order {
+/**
+ * ORDER BY the sort column, then id. On PostgreSQL, a text search sorted by one of the searched
+ * columns orders by `lower(column)` instead (the same order under the database's case-insensitive
+ * collation): no index gives that order, so the planner finds the matches through the search's
+ * `lower(…)` indexes and sorts those few, rather than walking the sort column's index past every
+ * row that sorts before the first match.
+ */
+export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir'], searching = false): Order {
   const d = dir === 'desc' ? 'DESC' : 'ASC'
+  if (searching && onPostgres() && (INSTRUMENT_SEARCH_COLUMNS as readonly string[]).includes(sort)) {
+    return [[literal(`lower(${quotedColumn('Instrument', sort)})`), d], ['id', d]]
+  }
   return [[sort, d], ['id', d]]
 }
 
@@ -44,7 +55,7 @@ export async function queryInstruments(o: InstrumentListOptions): Promise<{ rows
   const filter = instrumentFilter(o).options()
   const [total, page] = await Promise.all([
     Instrument.count(filter),
-    Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true }),
+    Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir, !!o.q), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true }),
   ])
   const ids = page.map(r => r.id)
   if (!ids.length) return { rows: [], total }

@@ -15,8 +15,6 @@
  * No Nuxt or Nitro imports: the Nitro plugin (server/plugins/mailSender.ts), the admin routes,
  * the tests and the benchmark all call these functions.
  */
-import crypto from 'node:crypto'
-import os from 'node:os'
 import { Op, type Transaction, type WhereOptions } from 'sequelize'
 import type { MailKind, OutboxQuery } from '#shared/schemas/mail'
 import type { Page } from '#shared/types'
@@ -25,6 +23,7 @@ import { conflict, notFound } from '#server/utils/errors'
 import { inTransaction } from '#server/utils/transaction'
 import { OutboxMessage } from '#server/models/OutboxMessage'
 import { recordAudit } from '#server/utils/audit'
+import { INSTANCE_ID } from '#server/utils/instance'
 import { deliverMail, mailDomain, type OutgoingMail } from './transport'
 
 export const MAX_ATTEMPTS = 14
@@ -35,7 +34,7 @@ export const CLAIM_MS = 120_000
 const BATCH = 50
 
 /** This process, as it signs its claims. */
-export const INSTANCE_ID = `${os.hostname()}:${process.pid}:${crypto.randomBytes(3).toString('hex')}`
+export { INSTANCE_ID }
 
 export interface QueueInput {
   kind: MailKind
@@ -77,7 +76,8 @@ export interface EventMailInput {
  * issued with its portal link) in the event's own transaction, so the event and its message
  * commit together. Returns null, and queues nothing, when a message with the same dedupeKey is
  * already in the outbox (the event was handled before). Checked before inserting, inside the
- * transaction: SQLite transactions here are BEGIN IMMEDIATE, so no other writer runs in between.
+ * transaction: SQLite transactions here are BEGIN IMMEDIATE, so no other writer runs in between; on
+ * PostgreSQL a concurrent second copy fails on the unique dedupeKey and its transaction rolls back.
  */
 export async function queueEventMail(t: Transaction, input: EventMailInput): Promise<OutboxMessage | null> {
   const key = `${input.kind}:${input.dedupeKey}`

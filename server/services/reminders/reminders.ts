@@ -36,7 +36,9 @@ import { Organization } from '#server/models/Organization'
 import type { ReminderItemType } from '#server/models/ReminderLog'
 import { User } from '#server/models/User'
 import { recordAudit, snapshot } from '#server/utils/audit'
-import { sequelize, writeTransaction } from '#server/utils/db'
+import { onPostgres, sequelize, writeTransaction } from '#server/utils/db'
+import { withLease } from '#server/utils/lease'
+import { conflict } from '#server/utils/errors'
 import { unsubscribeUrl, verifyUnsubscribeToken } from '#server/services/mail/tokens'
 import { equipmentAlertMail, labIdentity, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
 import { queueMail, sendQueued, type SendOptions } from '#server/services/mail/outbox'
@@ -105,13 +107,15 @@ async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: La
   // One pass over the register: every instrument that could be at a milestone, of an organization
   // someone at which receives reminders, with the milestones of its due date already logged
   // (a correlated look-up on the log's unique index).
+  // Identifiers in double quotes and booleans as TRUE/FALSE: the same SQL on SQLite and PostgreSQL.
+  const concat = onPostgres() ? 'string_agg' : 'group_concat'
   const candidates = await sequelize.query<CandidateRow>(
-    `SELECT i.id, i.organizationId, i.nextDueDate,
-            (SELECT group_concat(r.milestone, ' ') FROM reminder_logs r
-              WHERE r.itemType = 'instrument' AND r.itemId = i.id AND r.dueDate = i.nextDueDate) AS sent
-       FROM instruments i JOIN organizations o ON o.id = i.organizationId AND o.active = 1
-      WHERE i.archived = 0 AND i.status <> 'retired' AND i.nextDueDate IS NOT NULL AND i.nextDueDate <= :horizon
-        AND EXISTS (SELECT 1 FROM contacts c WHERE c.organizationId = i.organizationId AND c.active = 1 AND c.receivesReminders = 1)`,
+    `SELECT i.id, i."organizationId", i."nextDueDate",
+            (SELECT ${concat}(r.milestone, ' ') FROM reminder_logs r
+              WHERE r."itemType" = 'instrument' AND r."itemId" = i.id AND r."dueDate" = i."nextDueDate") AS sent
+       FROM instruments i JOIN organizations o ON o.id = i."organizationId" AND o.active = TRUE
+      WHERE i.archived = FALSE AND i.status <> 'retired' AND i."nextDueDate" IS NOT NULL AND i."nextDueDate" <= :horizon
+        AND EXISTS (SELECT 1 FROM contacts c WHERE c."organizationId" = i."organizationId" AND c.active = TRUE AND c."receivesReminders" = TRUE)`,
     { type: QueryTypes.SELECT, replacements: { horizon } },
   )
   const milestoneOf = milestonesOn(today, rules)
@@ -183,12 +187,12 @@ async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: La
 interface EquipmentRow { id: number, assetTag: string, maker: string, model: string, serial: string }
 
 async function planEquipmentGroup(today: IsoDate, lab: LabIdentity): Promise<PlannedGroup[]> {
-  const live = `archived = 0 AND status <> 'out-of-service'`
+  const live = `archived = FALSE AND status <> 'out-of-service'`
   const [sources, references, calibrations] = await Promise.all([
-    sequelize.query<EquipmentRow>(`SELECT id, assetTag, maker, model, serial FROM blackbody_sources WHERE ${live}`, { type: QueryTypes.SELECT }),
-    sequelize.query<EquipmentRow>(`SELECT id, assetTag, maker, model, serial FROM reference_instruments WHERE ${live}`, { type: QueryTypes.SELECT }),
+    sequelize.query<EquipmentRow>(`SELECT id, "assetTag", maker, model, serial FROM blackbody_sources WHERE ${live}`, { type: QueryTypes.SELECT }),
+    sequelize.query<EquipmentRow>(`SELECT id, "assetTag", maker, model, serial FROM reference_instruments WHERE ${live}`, { type: QueryTypes.SELECT }),
     sequelize.query<{ equipmentType: ReminderItemType, equipmentId: number, calibrationDate: string, dueDate: string }>(
-      'SELECT equipmentType, equipmentId, calibrationDate, dueDate FROM equipment_calibrations ORDER BY calibrationDate ASC, id ASC',
+      'SELECT "equipmentType", "equipmentId", "calibrationDate", "dueDate" FROM equipment_calibrations ORDER BY "calibrationDate" ASC, id ASC',
       { type: QueryTypes.SELECT },
     ),
   ])
@@ -196,7 +200,7 @@ async function planEquipmentGroup(today: IsoDate, lab: LabIdentity): Promise<Pla
   const due = new Map<string, string>()
   for (const c of calibrations) due.set(`${c.equipmentType}:${c.equipmentId}`, c.dueDate)
   const rows = await sequelize.query<{ itemType: string, itemId: number, dueDate: string, milestone: string }>(
-    `SELECT itemType, itemId, dueDate, milestone FROM reminder_logs WHERE itemType IN ('source', 'reference')`, { type: QueryTypes.SELECT })
+    `SELECT "itemType", "itemId", "dueDate", milestone FROM reminder_logs WHERE "itemType" IN ('source', 'reference')`, { type: QueryTypes.SELECT })
   const loggedWithDue = new Set(rows.map(r => `${r.itemType}:${r.itemId}:${r.dueDate}:${r.milestone}`))
 
   const items: PlannedItem[] = []
@@ -277,12 +281,12 @@ async function writeGroup(group: PlannedGroup, today: IsoDate): Promise<boolean>
       }
       // Plain multi-row INSERTs: a first run on a large register logs tens of thousands of rows,
       // and model instances would cost more than the scan itself.
-      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00').
+      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00'); PostgreSQL reads it as a timestamptz.
       const createdAt = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')
       for (let i = 0; i < group.items.length; i += LOG_CHUNK) {
         const chunk = group.items.slice(i, i + LOG_CHUNK)
         await sequelize.query(
-          `INSERT INTO reminder_logs (itemType, itemId, dueDate, milestone, sentOn, outboxMessageId, createdAt) VALUES ${chunk.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
+          `INSERT INTO reminder_logs ("itemType", "itemId", "dueDate", milestone, "sentOn", "outboxMessageId", "createdAt") VALUES ${chunk.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
           { replacements: chunk.flatMap(item => [item.itemType, item.itemId, item.dueDate, item.milestone, today, first, createdAt]), transaction: t, type: QueryTypes.INSERT },
         )
       }
@@ -317,18 +321,30 @@ export interface DailyRunResult {
   run: ReminderRunDTO | null
 }
 
+/** The lease (server/utils/lease.ts) under which one server instance at a time runs the reminder job. */
+export const REMINDER_LEASE = 'reminders:daily'
+
 /**
  * The hourly scheduled job: from the configured send hour (lab-local) on, scan and then send.
  * Later runs the same day find everything logged and send nothing new; `force` ignores the hour
- * ("run reminders now").
+ * ("run reminders now"). One instance at a time does the work (a lease in the database): the
+ * scheduled run of another instance skips it, and "run reminders now" waits for it (up to a minute,
+ * then 409) and finds what it did already logged.
  */
 export async function runDailyReminders(opts: { now?: Date, force?: boolean, send?: SendOptions } = {}): Promise<DailyRunResult> {
   const now = opts.now ?? new Date()
   const settings = await mailSettingsRow()
   if (!opts.force && labLocalHour(now, await labTimeZone()) < settings.sendHour) return { ran: false, run: null }
-  const scan = await runReminderScan({ now })
-  const delivery = await sendQueued({ ...opts.send })
-  return { ran: true, run: { ...scan, delivery } }
+  const leased = await withLease(REMINDER_LEASE, async () => {
+    const scan = await runReminderScan({ now })
+    const delivery = await sendQueued({ ...opts.send })
+    return { ...scan, delivery }
+  }, { waitMs: opts.force ? 60_000 : 0 })
+  if (!leased.ran) {
+    if (opts.force) conflict('Another server instance is running the reminder job; try again in a minute')
+    return { ran: false, run: null }
+  }
+  return { ran: true, run: leased.value }
 }
 
 // ---------------------------------------------------------------- unsubscribe

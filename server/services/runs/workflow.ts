@@ -37,8 +37,13 @@ const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'spotDiameterMm', '
 export const LOCKED_MESSAGE = 'approved runs cannot change'
 export const FROZEN_MESSAGE = 'the run is under review: nothing in it can change until the reviewer returns it'
 
+/**
+ * The run, locked until the transaction ends (SELECT … FOR UPDATE on PostgreSQL; SQLite's
+ * transactions already exclude each other): every change to a run's data moves the run's version
+ * on, so concurrent changes on any server instance take their turn instead of failing as stale.
+ */
 export async function findRun(t: Transaction, id: number): Promise<CalibrationRun> {
-  const run = await CalibrationRun.findByPk(id, { transaction: t })
+  const run = await CalibrationRun.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
   if (!run) notFound('run')
   return run
 }

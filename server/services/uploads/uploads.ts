@@ -1,18 +1,15 @@
 /**
- * Uploaded files: stored once under the data directory by the SHA-256 of their content
- * (`<data dir>/ab/abcdef…`), never under a name the client chose. The type is detected from the
+ * Uploaded files: stored once by the SHA-256 of their content through the file store
+ * (server/utils/fileStore.ts: the data directory, `<data dir>/ab/abcdef…`, or the database),
+ * never under a name the client chose. The type is detected from the
  * bytes: PDF (`%PDF-`), PNG (its 8-byte signature), JPEG (`FF D8 FF`), or CSV (valid UTF-8 text
  * without NUL bytes that papaparse reads into rows of at least two columns).
  *
- * BANDLIGHT_DATA_DIR names the directory (default: `files/` beside the SQLite file);
- * UPLOAD_MAX_BYTES the size limit (default 10 MB).
+ * FILE_STORAGE and BANDLIGHT_DATA_DIR choose where; UPLOAD_MAX_BYTES the size limit (default 10 MB).
  */
-import crypto from 'node:crypto'
-import fs from 'node:fs'
-import os from 'node:os'
-import path from 'node:path'
+import type { Transaction } from 'sequelize'
 import Papa from 'papaparse'
-import { createError, sendStream, setResponseHeaders, type H3Event } from 'h3'
+import { createError, setResponseHeaders, type H3Event } from 'h3'
 import { can } from '#shared/permissions'
 import { UPLOAD_TYPES_BY_PURPOSE, type UploadType } from '#shared/registers/constants'
 import { fieldErrors } from '#shared/schemas/errors'
@@ -27,25 +24,18 @@ import { inTransaction } from '#server/utils/transaction'
 import { assertActiveOrganization } from '#server/services/organizations/organizations'
 import { uploadDTO } from './dto'
 import { config } from '#server/utils/config'
-import { databasePath } from '#server/utils/db'
+import { dataDir, fileStore, storedFilePath } from '#server/utils/fileStore'
 
 export function maxUploadBytes(): number {
   return config().uploadMaxBytes
 }
 
-/** Where files are kept. */
-export function dataDir(): string {
-  const configured = config().dataDir
-  if (configured) return path.resolve(configured)
-  const db = databasePath()
-  if (db === ':memory:') return path.join(os.tmpdir(), 'bandlight-files')
-  return path.join(path.dirname(db), 'files')
-}
+/** Where files are kept when they are kept in a directory (server/utils/fileStore.ts). */
+export { dataDir }
 
-/** The file of a content hash; refuses anything but 64 lower-case hex digits. */
+/** The file of a content hash in the directory store; refuses anything but 64 lower-case hex digits. */
 export function uploadFilePath(sha256: string): string {
-  if (!/^[0-9a-f]{64}$/.test(sha256)) throw new Error('not a SHA-256 hex digest')
-  return path.join(dataDir(), sha256.slice(0, 2), sha256)
+  return storedFilePath(sha256)
 }
 
 const PNG = Buffer.from([0x89, 0x50, 0x4E, 0x47, 0x0D, 0x0A, 0x1A, 0x0A])
@@ -81,16 +71,12 @@ export function sanitizeFileName(name: string | undefined): string {
   return clean || 'file'
 }
 
-/** Store bytes by their hash (once; a second copy of the same content is not rewritten). */
-export async function storeUploadBytes(data: Buffer): Promise<string> {
-  const sha256 = crypto.createHash('sha256').update(data).digest('hex')
-  const file = uploadFilePath(sha256)
-  if (fs.existsSync(file)) return sha256
-  await fs.promises.mkdir(path.dirname(file), { recursive: true })
-  const tmp = `${file}.${process.pid}.${crypto.randomBytes(6).toString('hex')}.tmp`
-  await fs.promises.writeFile(tmp, data, { flag: 'wx' })
-  await fs.promises.rename(tmp, file)
-  return sha256
+/**
+ * Store bytes by their hash (once; a second copy of the same content is not rewritten).
+ * @param t - the caller's transaction, if any: the database store writes in it
+ */
+export async function storeUploadBytes(data: Buffer, t?: Transaction): Promise<string> {
+  return fileStore().put(data, t)
 }
 
 /**
@@ -170,15 +156,15 @@ export interface StoredFile {
 }
 
 /** Send a stored file as an attachment (never shown inline, never cached); 404 when its bytes are missing. */
-export function sendStoredFile(event: H3Event, file: StoredFile) {
-  const filePath = uploadFilePath(file.sha256)
-  if (!fs.existsSync(filePath)) notFound('file')
+export async function sendStoredFile(event: H3Event, file: StoredFile): Promise<Buffer> {
+  const bytes = await fileStore().get(file.sha256)
+  if (!bytes) notFound('file')
   setResponseHeaders(event, {
     'content-type': file.type,
-    'content-length': file.size,
+    'content-length': bytes.length,
     'content-disposition': attachmentDisposition(file.name),
     'x-content-type-options': 'nosniff',
     'cache-control': 'private, no-store',
   })
-  return sendStream(event, fs.createReadStream(filePath))
+  return bytes
 }

@@ -6,7 +6,7 @@ import { parseWith } from '#server/utils/validation'
 /** Start a Monte Carlo check as a job to poll (202). */
 export default defineEventHandler(async (event) => {
   const user = await requirePermission(event, 'calculation:run')
-  const job = startMonteCarloJob(user, await readValidatedBody(event, parseWith(monteCarloSchema)))
+  const job = await startMonteCarloJob(user, await readValidatedBody(event, parseWith(monteCarloSchema)))
   setResponseStatus(event, 202)
   return job
 })
