@@ -59,13 +59,14 @@ export async function startBandlightCluster(opts: ClusterOptions = {}): Promise<
     const databaseUrl = await pg.createDatabase('bandlight')
     const mailbox = path.join(dir, 'mailbox')
     // The port asked for, or any free one when it is taken (another demo's mail server).
-    sink = await startMailSink({ port: opts.mailPort ?? 0, dir: mailbox, quiet: true })
+    const mail: MailSink = await startMailSink({ port: opts.mailPort ?? 0, dir: mailbox, quiet: true })
       .catch(err => opts.mailPort ? startMailSink({ port: 0, dir: mailbox, quiet: true }) : Promise.reject(err))
+    sink = mail
     const env: NodeJS.ProcessEnv = {
       ...process.env,
       DATABASE_URL: databaseUrl,
       NUXT_SESSION_PASSWORD: process.env.NUXT_SESSION_PASSWORD || crypto.randomBytes(32).toString('hex'),
-      SMTP_URL: `smtp://127.0.0.1:${sink.port}`,
+      SMTP_URL: `smtp://127.0.0.1:${mail.port}`,
       BANDLIGHT_MAILBOX_DIR: mailbox,
       ...opts.env,
     }
@@ -78,7 +79,7 @@ export async function startBandlightCluster(opts: ClusterOptions = {}): Promise<
       servers.push(await startServer({ ...env, BANDLIGHT_DATA_DIR: path.join(local, 'files') }, port, { quiet: opts.quiet }))
       urls.push(`http://127.0.0.1:${port}`)
     }
-    return { pg, databaseUrl, urls, servers, sink, env, stop }
+    return { pg, databaseUrl, urls, servers, sink: mail, env, stop }
   }
   catch (err) {
     await stop()

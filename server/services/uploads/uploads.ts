@@ -24,7 +24,7 @@ import { inTransaction } from '#server/utils/transaction'
 import { assertActiveOrganization } from '#server/services/organizations/organizations'
 import { uploadDTO } from './dto'
 import { config } from '#server/utils/config'
-import { dataDir, fileStore, storedFilePath } from '#server/utils/fileStore'
+import { contentHash, dataDir, fileStore, storedFilePath } from '#server/utils/fileStore'
 
 export function maxUploadBytes(): number {
   return config().uploadMaxBytes
@@ -84,10 +84,9 @@ export async function storeUploadBytes(data: Buffer, t?: Transaction): Promise<s
  * error when its content no longer has that hash (the store was damaged — never served as if whole).
  */
 export async function readStoredBytes(sha256: string): Promise<Buffer> {
-  const file = uploadFilePath(sha256)
-  if (!fs.existsSync(file)) notFound('file')
-  const data = await fs.promises.readFile(file)
-  if (crypto.createHash('sha256').update(data).digest('hex') !== sha256) throw new Error(`stored file ${sha256} does not match its hash`)
+  const data = await fileStore().get(sha256)
+  if (!data) notFound('file')
+  if (contentHash(data) !== sha256) throw new Error(`stored file ${sha256} does not match its hash`)
   return data
 }
 
