@@ -11,6 +11,7 @@ import * as m0006 from './0006-requests'
 import * as m0007 from './0007-sessions-throttles'
 import * as m0008 from './0008-lab-time-zone'
 import * as m0009 from './0009-record-truth'
+import * as m0013 from './0013-quality-records'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -22,4 +23,5 @@ export const migrations = [
   { name: '0007-sessions-throttles', ...m0007 },
   { name: '0008-lab-time-zone', ...m0008 },
   { name: '0009-record-truth', ...m0009 },
+  { name: '0013-quality-records', ...m0013 },
 ]

@@ -26,6 +26,8 @@ export class BlackbodySource extends Model<InferAttributes<BlackbodySource>, Inf
   /** `[setPointK, correctionK]` rows from the source's certificate. */
   declare corrections: CreationOptional<[number, number][]>
   declare status: CreationOptional<EquipmentStatus>
+  /** Why the item is out of service or quarantined (a failed check and its nonconformity …); null in service. */
+  declare statusReason: CreationOptional<string | null>
   declare notes: string | null
   declare archived: CreationOptional<boolean>
   declare version: CreationOptional<number>
@@ -52,6 +54,7 @@ BlackbodySource.init(
     stabilityK: { type: DataTypes.DOUBLE, allowNull: false },
     corrections: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
     status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'in-service' },
+    statusReason: { type: DataTypes.TEXT, allowNull: true },
     notes: { type: DataTypes.TEXT, allowNull: true },
     archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
