@@ -13,8 +13,8 @@
  * - `en`: the normalized error E_n = d/√(U_meas² + U_nom²) with both expanded uncertainties
  *   (ISO 13528:2015 9.7, via {@link enNumber}); |E_n| ≤ 1 passes.
  * As in ./proficiency.ts, a computed value within the rounding bound of its own computation
- * (τ = 8·ε·(|measured| + |nominal|), K) of the limit counts as on it: 373.65 − 373.15 is
- * 0.5000000000000568 in binary, and a 0.5 K limit passes it.
+ * (τ = 8·ε·(|measured| + |nominal|), K) of the limit counts as on it: 273.25 − 273.15 is
+ * 0.10000000000002274 in binary, and a 0.1 K limit passes it.
  */
 
 import { EngineInputError } from '../radiometry/errors'

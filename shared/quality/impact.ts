@@ -164,7 +164,8 @@ export function referenceCorrectionAt(rows: readonly (readonly [number, number])
   for (let i = 1; i < pts.length; i++) {
     const [t0, d0] = pts[i - 1]!
     const [t1, d1] = pts[i]!
-    if (temperatureK <= t1) return d0 + (d1 - d0) * (temperatureK - t0) / (t1 - t0)
+    if (temperatureK === t1) return d1
+    if (temperatureK < t1) return d0 + (d1 - d0) * (temperatureK - t0) / (t1 - t0)
   }
   return first[1]
 }
