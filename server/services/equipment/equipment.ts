@@ -5,7 +5,7 @@
  * server/api/reference-instruments check the role and validate, then call these.
  */
 import { createError, type H3Event } from 'h3'
-import { literal, type Model, type ModelStatic, type Order, type WhereOptions } from 'sequelize'
+import { literal, type Model, type ModelStatic, type Order, type Transaction, type WhereOptions } from 'sequelize'
 import type { z } from 'zod'
 import type { EquipmentType } from '#shared/registers/constants'
 import type { CalibrationCreateInput } from '#shared/schemas/calibration'
@@ -27,6 +27,7 @@ import { changes, checkMerged } from '#server/utils/validation'
 import { ListFilter } from '#server/utils/search'
 import { labToday } from '#server/services/settings/today'
 import { inTransaction } from '#server/utils/transaction'
+import { affectedPeriod, raiseNonconformityIn } from '#server/services/nonconformities/raise'
 
 type EquipmentRow = BlackbodySource | ReferenceInstrument
 
@@ -141,6 +142,8 @@ export async function updateEquipment<R extends EquipmentRow, D>(reg: EquipmentR
     assertVersion(row.version, input.version)
     const { id: _id, version: _v, archived: _a, createdAt: _c, updatedAt: _u, ...stored } = snapshot(row)
     const merged = checkMerged(reg.createSchema, { ...stored, ...changes(input) }) as Record<string, unknown>
+    // Back in service by hand: the reason it was out of service no longer applies.
+    if (merged.status === 'in-service') merged.statusReason = null
     await updateAudited(t, user, row, merged as never, { entity: reg.entity })
     return row
   })
@@ -160,6 +163,10 @@ export async function archiveEquipment<R extends EquipmentRow, D>(reg: Equipment
   return reg.dto(row, cals.get(id)?.[0], await labToday())
 }
 
+/**
+ * Record an external calibration of a source or reference instrument. With as-found data out of
+ * tolerance it raises a nonconformity (its id is in the answer).
+ */
 export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibrationDTO> {
   const cal = await inTransaction(async (t) => {
     const row = await reg.model.findByPk(id, { transaction: t })
@@ -172,15 +179,43 @@ export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRe
     if (clash) {
       throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This certificate is already recorded', data: { fields: { certificateNumber: 'Already recorded for this equipment' } } })
     }
+    const asFound = input.asFound ?? null
+    const inTolerance = asFound ? asFound.corrections.every(([, d]) => Math.abs(d) <= asFound.toleranceK * (1 + 1e-12)) : null
     const created = await EquipmentCalibration.create(
-      { equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id },
+      {
+        equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id,
+        asFoundCorrections: asFound?.corrections ?? null, asFoundUncertaintyK: asFound?.standardUncertaintyK ?? null, asFoundToleranceK: asFound?.toleranceK ?? null, asFoundInTolerance: inTolerance,
+      },
       { transaction: t },
     )
     await recordAudit(t, { userId: user.id, action: 'create', entity: 'EquipmentCalibration', entityId: created.id, after: snapshot(created) })
     await recordAudit(t, { userId: user.id, action: 'add-calibration', entity: reg.entity, entityId: id, after: { calibrationId: created.id, certificateNumber: created.certificateNumber, calibrationDate: created.calibrationDate, dueDate: created.dueDate } })
-    return created
+    const nc = inTolerance === false ? await raiseOnAsFound(t, user, reg.type, row, created) : null
+    return { created, nc }
   })
-  return calibrationDTO(cal)
+  return { ...calibrationDTO(cal.created), nonconformityId: cal.nc?.id ?? null }
+}
+
+/**
+ * A reference found out of tolerance at its calibration (ISO/IEC 17025:2017 6.4.9): a nonconformity
+ * over the work done with it since the last good evidence, with the corrections found (to
+ * re-evaluate each affected point) and issuing withheld until the work is reviewed.
+ */
+async function raiseOnAsFound(t: Transaction, user: SessionUser, type: EquipmentType, item: EquipmentRow, cal: EquipmentCalibration) {
+  const period = await affectedPeriod(type, item.id, cal.calibrationDate, t)
+  const worst = (cal.asFoundCorrections ?? []).reduce((m, [, d]) => (Math.abs(d) > Math.abs(m) ? d : m), 0)
+  return raiseNonconformityIn(t, user, {
+    origin: 'calibration',
+    originId: cal.id,
+    title: `${item.assetTag} found out of tolerance at its calibration ${cal.certificateNumber}`,
+    description: `The calibration of ${cal.calibrationDate} by ${cal.provider} (certificate ${cal.certificateNumber}) found ${item.assetTag} needing a correction of up to ${worst} K as found, beyond its tolerance of ±${cal.asFoundToleranceK} K. Work done with it from ${period.from} (last good evidence) to ${period.to} is affected; issuing certificates from it is withheld until the work is reviewed.`,
+    risk: 'high',
+    withhold: true,
+    equipment: { type, id: item.id },
+    affectedFrom: period.from,
+    affectedTo: period.to,
+    referenceCorrections: cal.asFoundCorrections,
+  })
 }
 
 export async function exportEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, event: H3Event, q: SourceQuery | ReferenceQuery): Promise<string> {
