@@ -197,6 +197,7 @@ export async function recordCheckIn(t: Transaction, actor: { id: number }, planI
 
   const period = await affectedPeriod(plan.equipmentType, plan.equipmentId, input.checkedOn, t)
   const nc = await raiseNonconformityIn(t, actor, {
+    raisedOn: input.checkedOn,
     origin: 'check',
     originId: result.id,
     title: `${item.assetTag} failed its intermediate check on ${input.checkedOn}`,

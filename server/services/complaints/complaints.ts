@@ -148,7 +148,8 @@ export async function submitComplaintIn(t: Transaction, user: SessionUser, input
     organizationId = input.organizationId
   }
   const today = await labToday(new Date(), t)
-  const day = customer ? today : receivedOn ?? input.receivedOn ?? today
+  // The date given by the calling code (the demo seed) wins; a customer's complaint is received today.
+  const day = receivedOn ?? (customer ? today : input.receivedOn ?? today)
   if (day > today) invalidInput({ receivedOn: 'A complaint cannot be received on a date still to come' })
   const row = await createAudited(t, user, Complaint, {
     number: await nextRecordNumber(t, Complaint, 'CP', day),

@@ -95,8 +95,13 @@ export async function impactOf(type: EquipmentType, id: number, from: string, to
   }
 }
 
-/** The effect of the reference's corrections on one point (see the module notes). */
-export function pointEffect(p: RunPoint, corrections: readonly (readonly [number, number])[] | null): PointEffectDTO {
+/**
+ * The effect of the reference's corrections on one point (see the module notes). A source's
+ * correction moves a point's reference temperature only when that temperature came from the
+ * source's setting and certificate correction; a point whose reference temperature a reference
+ * thermometer measured is not moved by it, and is left for the laboratory to judge.
+ */
+export function pointEffect(p: RunPoint, corrections: readonly (readonly [number, number])[] | null, type: EquipmentType): PointEffectDTO {
   const base = {
     pointId: p.id,
     runId: p.runId,
@@ -110,6 +115,9 @@ export function pointEffect(p: RunPoint, corrections: readonly (readonly [number
   const none = (correctionK: number | null, statement: string): PointEffectDTO => ({
     ...base, correctionK, errorShiftK: null, correctedErrorK: null, withinUncertainty: null, correctedVerdict: null, assessment: 'not-computable', statement,
   })
+  if (type === 'source' && p.referenceInstrumentId != null) {
+    return none(null, 'The reference temperature of this point was measured by a reference thermometer, not taken from the source\'s setting: a correction of the source does not move it. Judge the other effects of the fault (uniformity, emissivity) on this point')
+  }
   if (!corrections?.length) return none(null, 'No correction found for the reference is recorded: the effect cannot be computed yet')
   const delta = referenceCorrectionAt(corrections, p.referenceTemperatureK)
   if (delta === null) return none(null, `The corrections found do not cover ${p.referenceTemperatureK.toFixed(2)} K: the effect at this point cannot be computed`)
@@ -175,7 +183,7 @@ export async function affectedWork(type: EquipmentType, id: number, from: string
       instrumentSerial: serial.get(r.instrumentId) ?? null,
       certificateNumber: certOfRun.get(r.id)?.number ?? anyCertOfRun.get(r.id) ?? null,
     })),
-    effects: w.runs.flatMap(r => (w.points.get(r.id) ?? []).map(p => pointEffect(p, corrections))),
+    effects: w.runs.flatMap(r => (w.points.get(r.id) ?? []).map(p => pointEffect(p, corrections, type))),
   }
 }
 
