@@ -165,3 +165,30 @@ export async function organizationOf(customer: Client): Promise<number> {
   expect(me.body.organizationId, 'a customer user has an organization').toEqual(expect.any(Number))
   return me.body.organizationId as number
 }
+
+/** The body of a point taken on a source at a set-point (its indicated temperature the set-point), with three readings `offsetK` off it. */
+export function pointOn(sourceId: number, setPointK: number, offsetK = -0.2): Record<string, unknown> {
+  return { sourceId, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK + offsetK, setPointK + offsetK + 0.1, setPointK + offsetK - 0.1] }
+}
+
+/**
+ * A run with its receipt and the given points, submitted by the technician and approved by the
+ * quality client; answers the run's id. `header` overrides the run header (e.g. its calibration date).
+ */
+export async function makeApprovedRun(tech: Client, quality: Client, instrumentId: number, procedureVersionId: number, points: Record<string, unknown>[], header: Record<string, unknown> & { receipt?: false | Record<string, unknown> } = {}): Promise<number> {
+  const run = await makeRun(tech, instrumentId, procedureVersionId, header)
+  for (const p of points) {
+    const r = await tech.post(`/api/runs/${run.id}/points`, p)
+    expect(r.status, `point: ${JSON.stringify(r.body)}`).toBe(201)
+  }
+  const s = await tech.post(`/api/runs/${run.id}/submit`, { version: (await tech.get(`/api/runs/${run.id}`)).body.version })
+  expect(s.status, `submit: ${JSON.stringify(s.body)}`).toBe(200)
+  const a = await quality.post(`/api/runs/${run.id}/approve`, { version: s.body.version })
+  expect(a.status, `approve: ${JSON.stringify(a.body)}`).toBe(200)
+  return run.id
+}
+
+/** Sign and issue the certificate of an approved run (the demo quality manager's password). */
+export async function issueCertificate(quality: Client, runId: number): Promise<{ status: number, body: Made & { number: string, organizationId: number } }> {
+  return quality.post('/api/certificates', { runId, password: 'bandlight-demo', signatoryFunction: 'Quality manager' })
+}
