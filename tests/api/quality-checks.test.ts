@@ -154,7 +154,7 @@ describe('a failed check', () => {
     expect(d.affectedWhenRaised.runs).toHaveLength(3)
     expect(d.undecidedCertificateIds.sort()).toEqual([cert0, cert1].sort())
     // δ = +0.5 K at 323.15 K (measured − nominal); the 373.15 K point lies outside the data (± 1 K)
-    const points = (await tech.get(`/api/runs/${r1}`)).body.points as { id: number, setPointK: number, errorK: number, statedUncertaintyK: number, result: { budget: { components: { input: string, sensitivity: number }[] } } }[]
+    const points = (await tech.get(`/api/runs/${r1}`)).body.points as { id: number, setPointK: number, result: { errorK: number, budget: { statedUncertaintyK: number, components: { input: string, sensitivity: number }[] } } }[]
     const at50 = points.find(p => p.setPointK === 323.15)!
     const at100 = points.find(p => p.setPointK === 373.15)!
     const e50 = d.affected.effects.find((e: { pointId: number }) => e.pointId === at50.id)
@@ -162,8 +162,8 @@ describe('a failed check', () => {
     expect(c).toBeGreaterThan(0.9) // ε_i = ε_s = 0.95: the reading follows the source almost 1:1
     expect(e50.correctionK).toBeCloseTo(0.5, 9)
     expect(e50.errorShiftK).toBeCloseTo(-0.5 * c, 9) // Δ = −c·δ
-    expect(e50.correctedErrorK).toBeCloseTo(at50.errorK - 0.5 * c, 9)
-    expect(at50.statedUncertaintyK).toBe(0.4) // the CMC is stated
+    expect(e50.correctedErrorK).toBeCloseTo(at50.result.errorK - 0.5 * c, 9)
+    expect(at50.result.budget.statedUncertaintyK).toBe(0.4) // the CMC is stated
     expect(e50.withinUncertainty).toBe(false) // |Δ| ≈ 0.5 K > U = 0.4 K
     expect(e50.assessment).toBe('exceeds-uncertainty')
     expect(e50.correctedVerdict).toBe('pass') // |E′| < TL = 1 K (greater of 1 K and 1 %)

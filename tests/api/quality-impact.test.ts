@@ -109,12 +109,14 @@ describe('the impact list on the demo scenario (hand-checked)', () => {
 
 describe('the impact list on records made here', () => {
   let source: { id: number, assetTag: string }
+  let otherSource: { id: number }
   let thermometer: { id: number }
   let versionId: number
   let org: number
   let instrument: number
   beforeAll(async () => {
     source = await makeSource(quality)
+    otherSource = await makeSource(quality)
     thermometer = await makeReference(quality)
     versionId = (await makeProcedure(quality)).currentVersion.id
     org = (await makeCustomer(admin)).id
@@ -126,10 +128,11 @@ describe('the impact list on records made here', () => {
     const a = await makeApprovedRun(tech, quality, instrument, versionId, [pointOn(source.id, 300), pointOn(source.id, 320)], { calibrationDate: '2026-10-01', receipt: EARLY })
     const certA = await issueCertificate(quality, a)
     expect(certA.status, JSON.stringify(certA.body)).toBe(201)
-    // B: draft on 2026-10-15, one point on the source (voided) and one with the reference thermometer → out for the source, in for the thermometer
+    // B: draft on 2026-10-15, one point on the source (voided) and one on another source measured with the
+    // reference thermometer → out for the source, in for the thermometer
     const b = await makeRun(tech, instrument, versionId, { calibrationDate: '2026-10-15', receipt: EARLY })
     const b1 = (await tech.post(`/api/runs/${b.id}/points`, pointOn(source.id, 300))).body
-    const b2 = (await tech.post(`/api/runs/${b.id}/points`, { ...pointOn(source.id, 310), sourceIndicatedK: null, referenceInstrumentId: thermometer.id, referenceReadingK: 310.05 })).body
+    const b2 = (await tech.post(`/api/runs/${b.id}/points`, { ...pointOn(otherSource.id, 310), sourceIndicatedK: null, referenceInstrumentId: thermometer.id, referenceReadingK: 310.05 })).body
     expect((await tech.post(`/api/runs/${b.id}/points/${b1.id}/void`, { reason: 'Wrong source chosen', version: b1.version })).status).toBe(200)
     // C: draft on 2026-10-31 with a point on the source, then the whole run voided          → out
     const c = await makeRun(tech, instrument, versionId, { calibrationDate: '2026-10-31', receipt: EARLY })

@@ -93,7 +93,7 @@ describe('a customer’s instrument: the same analysis for the laboratory only',
     const second = await makeApprovedRun(tech, quality, instrument, versionId, [{ sourceId: source.id, setPointK: 323.15, sourceIndicatedK: 323.15, readingsK: [322.8, 322.9, 322.7] }])
     const v = (await tech.get(`/api/instruments/${instrument}/interval-review`)).body
     expect(v).toMatchObject({ customerInstrument: true, temperatureK: 323.15, currentMonths: 12, decisions: [] })
-    const errors = await Promise.all([first, second].map(async id => (await tech.get(`/api/runs/${id}`)).body.points[0].errorK))
+    const errors = await Promise.all([first, second].map(async id => (await tech.get(`/api/runs/${id}`)).body.points[0].result.errorK))
     expect(v.history.map((h: { deviationK: number }) => h.deviationK)).toEqual(errors)
     expect(v.history.map((h: { sourceRecord: string }) => h.sourceRecord)).toEqual([`run:${first}`, `run:${second}`])
     expect((await customer.get(`/api/instruments/${instrument}/interval-review`)).status).toBe(403)
