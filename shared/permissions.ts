@@ -51,6 +51,41 @@ export const PERMISSIONS = {
   /** Reopen an issued certificate's run for correction (a new revision of the run). */
   'certificate:reopen': ['quality'],
 
+  /** Intermediate checks of the reference equipment: plans, results, control charts (6.4.10). */
+  'check:read': LAB_ROLES,
+  /** Record a check result (whoever performs the check). */
+  'check:record': LAB_ROLES,
+  /** Set up or change a check plan. */
+  'check:plan': QUALITY_AND_ADMIN,
+  /** Proficiency tests and interlaboratory comparisons (7.7.2). */
+  'proficiency:read': LAB_ROLES,
+  'proficiency:edit': QUALITY_AND_ADMIN,
+  /** Which runs and certificates used a source or reference instrument in a period (6.4.9, 7.10). */
+  'impact:read': QUALITY_AND_ADMIN,
+  /** Nonconforming work (7.10): anyone in the laboratory can raise one; the quality manager handles it. */
+  'nonconformity:read': LAB_ROLES,
+  'nonconformity:raise': LAB_ROLES,
+  /** Withhold, decide per certificate, notify customers, authorise resuming work, close. */
+  'nonconformity:manage': QUALITY_AND_ADMIN,
+  /** Complaints (7.9): customers see and submit their own organization's in the portal. */
+  'complaint:read': ROLES,
+  'complaint:submit': ROLES,
+  /** Investigate a complaint and propose its outcome. */
+  'complaint:handle': QUALITY_AND_ADMIN,
+  /** Approve the outcome and close (never someone involved in the work complained about). */
+  'complaint:approve': QUALITY_AND_ADMIN,
+  /** Corrective actions (8.7). */
+  'action:read': LAB_ROLES,
+  /** Mark one's own action done (the quality manager may mark any). */
+  'action:work': LAB_ROLES,
+  'action:manage': QUALITY_AND_ADMIN,
+  /** Calibration-interval analysis from the as-found history (the laboratory only, never customers). */
+  'interval:read': LAB_ROLES,
+  /** Record an interval decision for the laboratory's own equipment. */
+  'interval:decide': QUALITY_AND_ADMIN,
+  /** The quality manager's overview and the management-review summary (8.9). */
+  'quality:overview': QUALITY_AND_ADMIN,
+
   'settings:read': LAB_ROLES,
   'settings:edit': ['admin'],
   'user:manage': ['admin'],

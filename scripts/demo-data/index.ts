@@ -12,6 +12,7 @@ import { recordAudit, snapshot } from '#server/utils/audit'
 import { writeTransaction } from '#server/utils/db'
 import { seedCertificates } from './certificates'
 import { seedRegisters } from './registers'
+import { seedQuality } from './quality'
 import { seedRequests } from './requests'
 import { seedRuns } from './runs'
 import { makePasswordHash } from '#server/utils/password'
@@ -70,6 +71,7 @@ export async function seedDemo(): Promise<string> {
     created += await seedRuns(t)
     created += await seedCertificates(t)
     created += await seedRequests(t)
+    created += await seedQuality(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'
 }

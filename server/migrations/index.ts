@@ -14,6 +14,7 @@ import * as m0009 from './0009-record-truth'
 import * as m0010 from './0010-reference-basis'
 import * as m0011 from './0011-shared-state'
 import * as m0012 from './0012-certificate-dcc'
+import * as m0013 from './0013-quality-records'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -28,4 +29,5 @@ export const migrations = [
   { name: '0010-reference-basis', ...m0010 },
   { name: '0011-shared-state', ...m0011 },
   { name: '0012-certificate-dcc', ...m0012 },
+  { name: '0013-quality-records', ...m0013 },
 ]

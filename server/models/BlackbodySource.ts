@@ -46,6 +46,8 @@ export class BlackbodySource extends Model<InferAttributes<BlackbodySource>, Inf
   declare certifiedExpandedUncertaintyK: number | null
   declare certifiedCoverageFactor: number | null
   declare status: CreationOptional<EquipmentStatus>
+  /** Why the item is out of service or quarantined (a failed check and its nonconformity …); null in service. */
+  declare statusReason: CreationOptional<string | null>
   declare notes: string | null
   declare archived: CreationOptional<boolean>
   declare version: CreationOptional<number>
@@ -80,6 +82,7 @@ BlackbodySource.init(
     certifiedExpandedUncertaintyK: { type: DataTypes.DOUBLE, allowNull: true },
     certifiedCoverageFactor: { type: DataTypes.DOUBLE, allowNull: true },
     status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'in-service' },
+    statusReason: { type: DataTypes.TEXT, allowNull: true },
     notes: { type: DataTypes.TEXT, allowNull: true },
     archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },

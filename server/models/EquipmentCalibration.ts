@@ -19,6 +19,17 @@ export class EquipmentCalibration extends Model<InferAttributes<EquipmentCalibra
   declare results: string | null
   declare uploadId: number | null
   declare createdBy: number | null
+  /**
+   * As found, before any adjustment (from the certificate): rows `[temperatureK, correctionK]`, the
+   * correction the item needed = true value − value the laboratory was using, K. Null when not recorded.
+   */
+  declare asFoundCorrections: CreationOptional<[number, number][] | null>
+  /** Standard uncertainty (k = 1) of those corrections, K. */
+  declare asFoundUncertaintyK: CreationOptional<number | null>
+  /** The largest |correction| the laboratory accepts for the item (its tolerance), K. */
+  declare asFoundToleranceK: CreationOptional<number | null>
+  /** Every |correction| ≤ tolerance; null when no as-found data were recorded. */
+  declare asFoundInTolerance: CreationOptional<boolean | null>
   declare version: CreationOptional<number>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -36,6 +47,10 @@ EquipmentCalibration.init(
     results: { type: DataTypes.TEXT, allowNull: true },
     uploadId: { type: DataTypes.INTEGER, allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
+    asFoundCorrections: { type: DataTypes.JSON, allowNull: true },
+    asFoundUncertaintyK: { type: DataTypes.DOUBLE, allowNull: true },
+    asFoundToleranceK: { type: DataTypes.DOUBLE, allowNull: true },
+    asFoundInTolerance: { type: DataTypes.BOOLEAN, allowNull: true },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,

@@ -21,6 +21,8 @@ export class ReferenceInstrument extends Model<InferAttributes<ReferenceInstrume
   declare standardUncertainty: number
   declare uncertaintyUnit: RangeUnit
   declare status: CreationOptional<EquipmentStatus>
+  /** Why the item is out of service or quarantined (a failed check and its nonconformity …); null in service. */
+  declare statusReason: CreationOptional<string | null>
   declare notes: string | null
   declare archived: CreationOptional<boolean>
   declare version: CreationOptional<number>
@@ -42,6 +44,7 @@ ReferenceInstrument.init(
     standardUncertainty: { type: DataTypes.DOUBLE, allowNull: false },
     uncertaintyUnit: { type: DataTypes.STRING(8), allowNull: false },
     status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'in-service' },
+    statusReason: { type: DataTypes.TEXT, allowNull: true },
     notes: { type: DataTypes.TEXT, allowNull: true },
     archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },

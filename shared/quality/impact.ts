@@ -131,3 +131,41 @@ export function reevaluatePoint(input: ImpactInput): ImpactResult {
     statement: `${head}, ${uText}; under ${decision.ruleReference} ${vText}.${check}`,
   }
 }
+
+/**
+ * The correction δ a reference needed at a temperature, from as-found data: rows
+ * `[temperatureK, correctionK]` (true value − value the laboratory used). Inside the rows' range δ
+ * is interpolated linearly; within `marginK` outside it the nearest row's δ is used; farther out,
+ * and for an empty table, the data do not say (null). A single row applies within ±marginK of its
+ * temperature. Rows at the same temperature are averaged.
+ * @param rows - as-found corrections `[temperatureK, correctionK]`, any order (K, K)
+ * @param temperatureK - the reference temperature of the point, K
+ * @param marginK - how far outside the data the nearest value still applies, K (≥ 0; default 1)
+ * @returns δ in K, or null when the data do not cover the temperature
+ * @throws EngineInputError (`rows[i]`, `temperatureK`, `marginK`)
+ * @example referenceCorrectionAt([[323.15, -0.1], [373.15, -0.3]], 348.15) // -0.2
+ */
+export function referenceCorrectionAt(rows: readonly (readonly [number, number])[], temperatureK: number, marginK = 1): number | null {
+  if (typeof temperatureK !== 'number' || !Number.isFinite(temperatureK) || temperatureK <= 0) throw new EngineInputError('temperatureK', `must be a temperature above 0 K, got ${String(temperatureK)}`)
+  if (typeof marginK !== 'number' || !Number.isFinite(marginK) || marginK < 0) throw new EngineInputError('marginK', `must be a number ≥ 0 K, got ${String(marginK)}`)
+  const byT = new Map<number, number[]>()
+  rows.forEach((r, i) => {
+    if (!Array.isArray(r) || r.length !== 2 || !r.every(v => typeof v === 'number' && Number.isFinite(v)) || r[0] <= 0) {
+      throw new EngineInputError(`rows[${i}]`, 'must be [temperatureK, correctionK] with a temperature above 0 K')
+    }
+    byT.set(r[0], [...(byT.get(r[0]) ?? []), r[1]])
+  })
+  const pts = [...byT].map(([t, ds]) => [t, ds.reduce((a, b) => a + b, 0) / ds.length] as const).sort((a, b) => a[0] - b[0])
+  if (!pts.length) return null
+  const first = pts[0]!
+  const last = pts[pts.length - 1]!
+  if (temperatureK < first[0]) return first[0] - temperatureK <= marginK ? first[1] : null
+  if (temperatureK > last[0]) return temperatureK - last[0] <= marginK ? last[1] : null
+  for (let i = 1; i < pts.length; i++) {
+    const [t0, d0] = pts[i - 1]!
+    const [t1, d1] = pts[i]!
+    if (temperatureK === t1) return d1
+    if (temperatureK < t1) return d0 + (d1 - d0) * (temperatureK - t0) / (t1 - t0)
+  }
+  return first[1]
+}

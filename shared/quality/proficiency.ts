@@ -251,3 +251,38 @@ export function zetaScore(input: ZetaScoreInput): ScoreResult & { zeta: number }
     reference: 'ISO 13528:2015 9.6 (ζ score with standard uncertainties; interpreted as z)',
   }
 }
+
+/** Input of {@link evaluateProficiency}; values and uncertainties in one unit (e.g. K). */
+export interface ProficiencyInput extends EnNumberInput {
+  /** σ_pt of a scheme that reports z scores (same unit, > 0), or null/absent when it reports none. */
+  standardDeviationForProficiency?: number | null
+}
+
+/** Result of {@link evaluateProficiency}. */
+export interface ProficiencyEvaluation {
+  en: EnNumberResult
+  /** The z score when the scheme gives σ_pt, else null. */
+  z: (ScoreResult & { z: number }) | null
+  /** The worse of the two verdicts (E_n: satisfactory or unsatisfactory; z: three classes). */
+  verdict: ScoreVerdict
+}
+
+const RANK: Record<ScoreVerdict, number> = { satisfactory: 0, questionable: 1, unsatisfactory: 2 }
+
+/**
+ * E_n of a result (always) and its z score (when the scheme gives σ_pt), with the overall verdict:
+ * the worse of the two (ISO 13528:2015 9.4 and 9.7, *from memory*; see the module notes).
+ * @param input - labValue x, labExpandedUncertainty U_lab, referenceValue X, referenceExpandedUncertainty U_ref and optionally
+ *   standardDeviationForProficiency σ_pt (one unit, e.g. K)
+ * @returns the E_n result, the z result or null, and the overall verdict
+ * @throws EngineInputError as {@link enNumber} and {@link zScore}
+ * @example evaluateProficiency({ labValue: 373.45, labExpandedUncertainty: 0.3, referenceValue: 373.15, referenceExpandedUncertainty: 0.4,
+ *   standardDeviationForProficiency: 0.12 }).verdict // 'questionable' (E_n = 0.6 satisfactory, z = 2.5 questionable)
+ */
+export function evaluateProficiency(input: ProficiencyInput): ProficiencyEvaluation {
+  const en = enNumber(input)
+  const s = input.standardDeviationForProficiency
+  const z = s === null || s === undefined ? null : zScore({ labValue: input.labValue, assignedValue: input.referenceValue, standardDeviationForProficiency: s })
+  const verdict = z && RANK[z.verdict] > RANK[en.verdict] ? z.verdict : en.verdict
+  return { en, z, verdict }
+}

@@ -8,6 +8,8 @@ import { isDateOnly } from './dates'
 export interface UsabilityInput {
   /** 'in-service' | 'out-of-service' | 'quarantined' */
   status: string
+  /** Why it is out of service or quarantined (e.g. the failed check and its nonconformity), when recorded. */
+  statusReason?: string | null
   archived: boolean
   /** Each external calibration: its date and the date it falls due, `YYYY-MM-DD`. */
   calibrations: readonly { calibrationDate: string, dueDate: string }[]
@@ -23,7 +25,7 @@ export interface UsabilityInput {
 export function usabilityReason(equipment: UsabilityInput, dateISO: string): string | null {
   if (!isDateOnly(dateISO)) return `Not a YYYY-MM-DD date: ${dateISO}`
   if (equipment.archived) return 'The equipment is archived'
-  if (equipment.status !== 'in-service') return `The equipment is ${equipment.status.replace(/-/g, ' ')}`
+  if (equipment.status !== 'in-service') return `The equipment is ${equipment.status.replace(/-/g, ' ')}${equipment.statusReason ? `: ${equipment.statusReason}` : ''}`
   const before = equipment.calibrations
     .filter(c => c.calibrationDate <= dateISO)
     .sort((a, b) => (a.calibrationDate < b.calibrationDate ? 1 : a.calibrationDate > b.calibrationDate ? -1 : a.dueDate < b.dueDate ? 1 : -1))

@@ -5,8 +5,12 @@ import { pageQuerySchema, versionSchema } from './common'
 export const OUTBOX_STATUSES = ['queued', 'sent', 'failed'] as const
 export type OutboxStatus = (typeof OUTBOX_STATUSES)[number]
 
-/** What a message is about. `reminder` goes to customer contacts, `equipment-alert` to quality managers. */
-export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-reviewed', 'request-accepted', 'certificate-issued', 'certificate-amended', 'certificate-withdrawn'] as const
+/**
+ * What a message is about. `reminder` goes to customer contacts, `equipment-alert` and
+ * `quality-alert` (overdue corrective actions) to quality managers; complaint acknowledgements and
+ * closing notices to the complainant; `nonconformity-notice` to the customers of affected work.
+ */
+export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-reviewed', 'request-accepted', 'certificate-issued', 'certificate-amended', 'certificate-withdrawn', 'complaint-received', 'complaint-closed', 'nonconformity-notice', 'quality-alert'] as const
 export type MailKind = (typeof MAIL_KINDS)[number]
 
 export const outboxQuerySchema = pageQuerySchema.extend({

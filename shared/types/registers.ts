@@ -27,6 +27,16 @@ export interface EquipmentCalibrationDTO {
   results: string | null
   /** The certificate file (GET /api/uploads/[id]), when one was uploaded. */
   uploadId: number | null
+  /** As found, before adjustment: `[temperatureK, correctionK]` (true − value used), or null when not recorded. */
+  asFoundCorrections: [number, number][] | null
+  /** Standard uncertainty of the as-found corrections, K. */
+  asFoundUncertaintyK: number | null
+  /** The tolerance the laboratory allows the item, K. */
+  asFoundToleranceK: number | null
+  /** Every |correction| within the tolerance; null without as-found data. */
+  asFoundInTolerance: boolean | null
+  /** In the answer to recording a calibration: the nonconformity an out-of-tolerance as-found raised. */
+  nonconformityId?: number | null
   version: number
   createdAt: string
 }
@@ -67,6 +77,8 @@ interface EquipmentCommon {
   model: string
   serial: string
   status: EquipmentStatus
+  /** Why it is out of service or quarantined (e.g. a failed check and its nonconformity); null in service. */
+  statusReason: string | null
   notes: string | null
   archived: boolean
   /** Date of the latest external calibration, or null when none is recorded. */

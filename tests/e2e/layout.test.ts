@@ -22,8 +22,8 @@ beforeAll(async () => {
   const instrument = await makeInstrument(tech, me.organizationId)
   serial = instrument.serial as string
   const procedure = await makeProcedure(quality)
-  const run = await makeApprovedRun(tech, quality, instrument.id, procedure.currentVersion.id)
-  certificateNumber = (await issueCertificate(quality, run.id)).number
+  const runId = await makeApprovedRun(tech, quality, instrument.id, procedure.currentVersion.id)
+  certificateNumber = (await issueCertificate(quality, runId)).body.number
 })
 
 /** The page does not scroll sideways: its content is no wider than the window. */

@@ -175,27 +175,34 @@ export async function equipmentId(c: Client, assetTag: string): Promise<number> 
   return id!
 }
 
-/**
- * An approved run of an instrument (technician and quality clients): three points on the demo's
- * flat plate BB-FP-01, submitted by the technician and approved by the quality manager.
- */
-export async function makeApprovedRun(tech: Client, quality: Client, instrumentId: number, procedureVersionId: number): Promise<Made> {
-  const run = await makeRun(tech, instrumentId, procedureVersionId)
-  const plate = await equipmentId(tech, 'BB-FP-01')
-  for (const setPointK of [273.15, 323.15, 373.15]) {
-    const p = await tech.post(`/api/runs/${run.id}/points`, { sourceId: plate, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK - 0.2, setPointK - 0.1, setPointK - 0.3] })
-    expect(p.status, JSON.stringify(p.body)).toBe(201)
-  }
-  const submitted = await tech.post(`/api/runs/${run.id}/submit`, { version: run.version })
-  expect(submitted.status, JSON.stringify(submitted.body)).toBe(200)
-  const approved = await quality.post(`/api/runs/${run.id}/approve`, { version: submitted.body.version })
-  expect(approved.status, JSON.stringify(approved.body)).toBe(200)
-  return approved.body as Made
+/** The body of a point taken on a source at a set-point (its indicated temperature the set-point), with three readings `offsetK` off it. */
+export function pointOn(sourceId: number, setPointK: number, offsetK = -0.2): Record<string, unknown> {
+  return { sourceId, setPointK, sourceIndicatedK: setPointK, readingsK: [setPointK + offsetK, setPointK + offsetK + 0.1, setPointK + offsetK - 0.1] }
 }
 
-/** The certificate of an approved run, signed by the demo quality manager. */
-export async function issueCertificate(quality: Client, runId: number): Promise<Made & { number: string }> {
-  const r = await quality.post('/api/certificates', { runId, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
-  expect(r.status, JSON.stringify(r.body)).toBe(201)
-  return r.body as Made & { number: string }
+/**
+ * A run with its receipt and the given points (default: three on BB-FP-01), submitted by the technician and approved by the
+ * quality client; answers the run's id. `header` overrides the run header (e.g. its calibration date).
+ */
+export async function makeApprovedRun(tech: Client, quality: Client, instrumentId: number, procedureVersionId: number, points?: Record<string, unknown>[], header: Record<string, unknown> & { receipt?: false | Record<string, unknown> } = {}): Promise<number> {
+  const run = await makeRun(tech, instrumentId, procedureVersionId, header)
+  // By default three points on the demo's flat plate BB-FP-01.
+  if (!points) {
+    const plate = await equipmentId(tech, 'BB-FP-01')
+    points = [273.15, 323.15, 373.15].map(k => pointOn(plate, k))
+  }
+  for (const p of points) {
+    const r = await tech.post(`/api/runs/${run.id}/points`, p)
+    expect(r.status, `point: ${JSON.stringify(r.body)}`).toBe(201)
+  }
+  const s = await tech.post(`/api/runs/${run.id}/submit`, { version: (await tech.get(`/api/runs/${run.id}`)).body.version })
+  expect(s.status, `submit: ${JSON.stringify(s.body)}`).toBe(200)
+  const a = await quality.post(`/api/runs/${run.id}/approve`, { version: s.body.version })
+  expect(a.status, `approve: ${JSON.stringify(a.body)}`).toBe(200)
+  return run.id
+}
+
+/** Sign and issue the certificate of an approved run (the demo quality manager's password). */
+export async function issueCertificate(quality: Client, runId: number): Promise<{ status: number, body: Made & { number: string, organizationId: number } }> {
+  return quality.post('/api/certificates', { runId, password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
 }

@@ -36,6 +36,7 @@ import { clientAddress } from '#server/utils/request'
 import { clearSigningFailures, recordSigningFailure, signingPasswordWait } from '#server/utils/throttle'
 import { inTransaction } from '#server/utils/transaction'
 import { notifyCertificateAmended, notifyCertificateIssued, notifyCertificateWithdrawn } from '#server/services/mail/events'
+import { assertNotWithheld } from '#server/services/nonconformities/withhold'
 import { runDetail } from '#server/services/runs/runs'
 import { labSettingsRow, numberFormat } from '#server/services/settings/labSettings'
 import { labToday } from '#server/services/settings/today'
@@ -145,6 +146,7 @@ async function certificateCorrectedBy(t: Transaction | undefined, run: Calibrati
 /**
  * Issue the certificate of an approved run; the signer's password was checked by the caller. A run
  * that corrects a certificate (a reopened revision) issues the amendment of that certificate.
+ * 409 naming the nonconformity when an open one withholds issuing from this run.
  */
 export async function issueCertificateIn(t: Transaction, signer: Signer, runId: number, auditAction = 'issue'): Promise<Certificate> {
   // Locked (PostgreSQL) so that two signatories issuing the same run at once cannot both pass the check below.
@@ -153,6 +155,7 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
   if (run.status !== 'approved') invalidInput({ runId: 'Only an approved run can be certified: the run must be reviewed and approved first' })
   const existing = await Certificate.findOne({ where: { runId }, transaction: t })
   if (existing) conflict(`The run already has certificate ${existing.number}; reopen it to correct it`, 'runId')
+  await assertNotWithheld(t, run)
   if (run.revisionOf) {
     const old = await certificateCorrectedBy(t, run)
     if (!old) conflict('The certificate this run corrects is no longer valid', 'runId')

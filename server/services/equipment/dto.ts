@@ -16,6 +16,10 @@ export function calibrationDTO(c: EquipmentCalibration): EquipmentCalibrationDTO
     dueDate: c.dueDate,
     results: c.results ?? null,
     uploadId: c.uploadId ?? null,
+    asFoundCorrections: c.asFoundCorrections ?? null,
+    asFoundUncertaintyK: c.asFoundUncertaintyK ?? null,
+    asFoundToleranceK: c.asFoundToleranceK ?? null,
+    asFoundInTolerance: c.asFoundInTolerance ?? null,
     version: c.version,
     createdAt: c.createdAt.toISOString(),
   }
@@ -30,6 +34,7 @@ function equipmentCommon(e: BlackbodySource | ReferenceInstrument, latest: Equip
     model: e.model,
     serial: e.serial,
     status: e.status,
+    statusReason: e.statusReason ?? null,
     notes: e.notes ?? null,
     archived: !!e.archived,
     lastCalibrationDate: latest?.calibrationDate ?? null,

@@ -27,6 +27,7 @@ import { changes, checkMerged } from '#server/utils/validation'
 import { ListFilter } from '#server/utils/search'
 import { labToday } from '#server/services/settings/today'
 import { inTransaction } from '#server/utils/transaction'
+import { affectedPeriod, raiseNonconformityIn } from '#server/services/nonconformities/raise'
 
 export type EquipmentRow = BlackbodySource | ReferenceInstrument
 
@@ -142,6 +143,8 @@ export async function updateEquipment<R extends EquipmentRow, D>(reg: EquipmentR
     assertVersion(row.version, input.version)
     const { id: _id, version: _v, archived: _a, createdAt: _c, updatedAt: _u, ...stored } = snapshot(row)
     const merged = checkMerged(reg.createSchema, { ...stored, ...changes(input) }) as Record<string, unknown>
+    // Back in service by hand: the reason it was out of service no longer applies.
+    if (merged.status === 'in-service') merged.statusReason = null
     await updateAudited(t, user, row, merged as never, { entity: reg.entity })
     return row
   })
@@ -164,9 +167,10 @@ export async function archiveEquipment<R extends EquipmentRow, D>(reg: Equipment
 /**
  * Record an external calibration of a source or reference instrument in the caller's transaction,
  * with its audit rows: 404 for no such equipment, 400 for an upload that is not an equipment
- * certificate, 409 when the certificate number is already recorded for it.
+ * certificate, 409 when the certificate number is already recorded for it. With as-found data out
+ * of tolerance it raises a nonconformity (returned with the calibration).
  */
-export async function addCalibrationIn<R extends EquipmentRow, D>(t: Transaction, reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibration> {
+export async function addCalibrationIn<R extends EquipmentRow, D>(t: Transaction, reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibration & { nonconformityId?: number | null }> {
   const row = await reg.model.findByPk(id, { transaction: t })
   if (!row) notFound(reg.label)
   if (input.uploadId) {
@@ -177,17 +181,46 @@ export async function addCalibrationIn<R extends EquipmentRow, D>(t: Transaction
   if (clash) {
     throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This certificate is already recorded', data: { fields: { certificateNumber: 'Already recorded for this equipment' } } })
   }
+  const asFound = input.asFound ?? null
+  const inTolerance = asFound ? asFound.corrections.every(([, d]) => Math.abs(d) <= asFound.toleranceK * (1 + 1e-12)) : null
   const created = await EquipmentCalibration.create(
-    { equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id },
+    {
+      equipmentType: reg.type, equipmentId: id, provider: input.provider, certificateNumber: input.certificateNumber, calibrationDate: input.calibrationDate, dueDate: input.dueDate, results: input.results ?? null, uploadId: input.uploadId ?? null, createdBy: user.id,
+      asFoundCorrections: asFound?.corrections ?? null, asFoundUncertaintyK: asFound?.standardUncertaintyK ?? null, asFoundToleranceK: asFound?.toleranceK ?? null, asFoundInTolerance: inTolerance,
+    },
     { transaction: t },
   )
   await recordAudit(t, { userId: user.id, action: 'create', entity: 'EquipmentCalibration', entityId: created.id, after: snapshot(created) })
   await recordAudit(t, { userId: user.id, action: 'add-calibration', entity: reg.entity, entityId: id, after: { calibrationId: created.id, certificateNumber: created.certificateNumber, calibrationDate: created.calibrationDate, dueDate: created.dueDate } })
-  return created
+  const nc = inTolerance === false ? await raiseOnAsFound(t, user, reg.type, row, created) : null
+  return Object.assign(created, { nonconformityId: nc?.id ?? null })
 }
 
 export async function addCalibration<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, user: SessionUser, id: number, input: CalibrationCreateInput): Promise<EquipmentCalibrationDTO> {
-  return calibrationDTO(await inTransaction(t => addCalibrationIn(t, reg, user, id, input)))
+  const created = await inTransaction(t => addCalibrationIn(t, reg, user, id, input))
+  return { ...calibrationDTO(created), nonconformityId: created.nonconformityId ?? null }
+}
+
+/**
+ * A reference found out of tolerance at its calibration (ISO/IEC 17025:2017 6.4.9): a nonconformity
+ * over the work done with it since the last good evidence, with the corrections found (to
+ * re-evaluate each affected point) and issuing withheld until the work is reviewed.
+ */
+async function raiseOnAsFound(t: Transaction, user: SessionUser, type: EquipmentType, item: EquipmentRow, cal: EquipmentCalibration) {
+  const period = await affectedPeriod(type, item.id, cal.calibrationDate, t)
+  const worst = (cal.asFoundCorrections ?? []).reduce((m, [, d]) => (Math.abs(d) > Math.abs(m) ? d : m), 0)
+  return raiseNonconformityIn(t, user, {
+    origin: 'calibration',
+    originId: cal.id,
+    title: `${item.assetTag} found out of tolerance at its calibration ${cal.certificateNumber}`,
+    description: `The calibration of ${cal.calibrationDate} by ${cal.provider} (certificate ${cal.certificateNumber}) found ${item.assetTag} needing a correction of up to ${worst} K as found, beyond its tolerance of ±${cal.asFoundToleranceK} K. Work done with it from ${period.from} (last good evidence) to ${period.to} is affected; issuing certificates from it is withheld until the work is reviewed.`,
+    risk: 'high',
+    withhold: true,
+    equipment: { type, id: item.id },
+    affectedFrom: period.from,
+    affectedTo: period.to,
+    referenceCorrections: cal.asFoundCorrections,
+  })
 }
 
 export async function exportEquipment<R extends EquipmentRow, D>(reg: EquipmentRegister<R, D>, event: H3Event, q: SourceQuery | ReferenceQuery): Promise<string> {

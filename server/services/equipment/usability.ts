@@ -9,7 +9,7 @@ import type { ReferenceInstrument } from '#server/models/ReferenceInstrument'
 
 /**
  * Whether a source or reference instrument may be used on `dateISO` (`YYYY-MM-DD`): not archived,
- * in service, and its latest calibration on or before that date is not yet due.
+ * in service (an item out of service is refused with the reason recorded for it), and its latest calibration on or before that date is not yet due.
  * @returns the reason it is refused, or `null` when it is usable
  */
 export async function assertUsableOn(equipment: BlackbodySource | ReferenceInstrument, dateISO: string, transaction?: Transaction): Promise<string | null> {
@@ -20,7 +20,7 @@ export async function assertUsableOn(equipment: BlackbodySource | ReferenceInstr
     transaction,
   })
   return usabilityReason(
-    { status: equipment.status, archived: !!equipment.archived, calibrations: calibrations.map(c => ({ calibrationDate: c.calibrationDate, dueDate: c.dueDate })) },
+    { status: equipment.status, statusReason: equipment.statusReason ?? null, archived: !!equipment.archived, calibrations: calibrations.map(c => ({ calibrationDate: c.calibrationDate, dueDate: c.dueDate })) },
     dateISO,
   )
 }

@@ -63,7 +63,7 @@ export async function queueMail(t: Transaction, input: QueueInput): Promise<Outb
 }
 
 export interface EventMailInput {
-  kind: 'request-received' | 'request-reviewed' | 'request-accepted' | 'certificate-issued' | 'certificate-amended' | 'certificate-withdrawn'
+  kind: 'request-received' | 'request-reviewed' | 'request-accepted' | 'certificate-issued' | 'certificate-amended' | 'certificate-withdrawn' | 'complaint-received' | 'complaint-closed' | 'nonconformity-notice'
   to: string[]
   subject: string
   text: string

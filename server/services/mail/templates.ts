@@ -138,6 +138,26 @@ ${linesTableHtml(lines, ['Asset', 'Equipment', 'Due'])}`
   return { subject, text, html: htmlPage(lab, body, '') }
 }
 
+/** The alert to one quality manager about actions of corrective actions past their due dates (ISO/IEC 17025 8.7). */
+export function qualityAlertMail(input: { lab: LabIdentity, userName: string, lines: ReminderLine[] }): RenderedMail {
+  const { lab, lines } = input
+  const n = lines.length
+  const subject = `Corrective actions overdue: ${n} action${n === 1 ? '' : 's'}`
+  const intro = `${n === 1 ? 'This action' : `These ${n} actions`} of corrective actions ${n === 1 ? 'is' : 'are'} past ${n === 1 ? 'its' : 'their'} due date and not marked done. The quality overview lists them with their records.`
+  const text = `Dear ${input.userName},
+
+${intro}
+
+${linesText(lines)}
+
+${addressText(lab)}
+`
+  const body = `<p style="margin:0 0 12px">Dear ${escapeHtml(input.userName)},</p>
+<p style="margin:0 0 12px">${escapeHtml(intro)}</p>
+${linesTableHtml(lines, ['Corrective action', 'Action (owner)', 'Due'])}`
+  return { subject, text, html: htmlPage(lab, body, '') }
+}
+
 /** A short event message (request received or accepted, certificate issued) with an optional link. */
 export function eventMail(input: { lab: LabIdentity, subject: string, greeting: string, paragraphs: string[], link?: { url: string, label: string } }): RenderedMail {
   const { lab, subject, greeting, paragraphs, link } = input

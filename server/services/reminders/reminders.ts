@@ -8,7 +8,9 @@
  *   milestone, with the contact's own unsubscribe link;
  * - the lab: each blackbody source and reference instrument in service or quarantined whose
  *   latest calibration is due within 30 days (`due-soon`) or past due (`overdue`), one message per
- *   active quality manager.
+ *   active quality manager;
+ * - the quality managers: each action of an open corrective action not done after its due date
+ *   (`overdue`, once per action and due date), one message per active quality manager.
  *
  * Idempotent: an organization's log rows and its outbox rows are written in one transaction, the
  * log key (itemType, itemId, dueDate, milestone) and the outbox dedupeKey are unique, so running
@@ -17,8 +19,9 @@
  * run is still unlogged, and the next run sends it. No Nuxt or Nitro imports.
  */
 import crypto from 'node:crypto'
-import { QueryTypes, UniqueConstraintError } from 'sequelize'
+import { Op, QueryTypes, UniqueConstraintError } from 'sequelize'
 import {
+  daysBetween,
   dueInWords,
   equipmentMilestoneOn,
   labLocalDate,
@@ -40,7 +43,10 @@ import { onPostgres, sequelize, writeTransaction } from '#server/utils/db'
 import { withLease } from '#server/utils/lease'
 import { conflict } from '#server/utils/errors'
 import { unsubscribeUrl, verifyUnsubscribeToken } from '#server/services/mail/tokens'
-import { equipmentAlertMail, labIdentity, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
+import { equipmentAlertMail, labIdentity, qualityAlertMail, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
+import { CorrectiveAction } from '#server/models/CorrectiveAction'
+import { CorrectiveActionItem } from '#server/models/CorrectiveActionItem'
+import { ReminderLog } from '#server/models/ReminderLog'
 import { queueMail, sendQueued, type SendOptions } from '#server/services/mail/outbox'
 import { mailSettingsRow } from '#server/services/mail/settings'
 import { labTimeZone } from '#server/services/settings/today'
@@ -236,6 +242,44 @@ async function planEquipmentGroup(today: IsoDate, lab: LabIdentity): Promise<Pla
   return [{ key: 'equipment', items, messages }]
 }
 
+/** Actions of open corrective actions past their due date and not yet reported: one message per active quality manager. */
+async function planActionGroup(today: IsoDate, lab: LabIdentity): Promise<PlannedGroup[]> {
+  const late = await CorrectiveActionItem.findAll({ where: { doneOn: null, dueDate: { [Op.lt]: today } }, order: [['dueDate', 'ASC'], ['id', 'ASC']] })
+  if (!late.length) return []
+  const [actions, logged] = await Promise.all([
+    CorrectiveAction.findAll({ where: { id: [...new Set(late.map(i => i.correctiveActionId))], status: 'open' }, attributes: ['id', 'number', 'title'] }),
+    ReminderLog.findAll({ where: { itemType: 'action', itemId: late.map(i => i.id) }, attributes: ['itemId', 'dueDate', 'milestone'] }),
+  ])
+  const action = new Map(actions.map(a => [a.id, a]))
+  const sent = new Set(logged.map(l => `${l.itemId}:${l.dueDate}:${l.milestone}`))
+  const owners = await User.findAll({ where: { id: [...new Set(late.map(i => i.ownerId))] }, attributes: ['id', 'name'] })
+  const owner = new Map(owners.map(u => [u.id, u.name]))
+  const items: PlannedItem[] = []
+  for (const i of late) {
+    const a = action.get(i.correctiveActionId)
+    if (!a || sent.has(`${i.id}:${i.dueDate}:overdue`)) continue
+    items.push({
+      itemType: 'action',
+      itemId: i.id,
+      dueDate: i.dueDate,
+      milestone: 'overdue',
+      label: a.number,
+      detail: `${i.description} (${owner.get(i.ownerId) ?? 'no owner'})`,
+      dueInWords: dueInWords(-daysBetween(i.dueDate, today)),
+      overdue: true,
+    })
+  }
+  if (!items.length) return []
+  const managers = await User.findAll({ where: { role: 'quality', active: true }, order: [['id', 'ASC']] })
+  if (!managers.length) return []
+  const hash = itemsHash(items)
+  const messages = managers.map((u) => {
+    const mail = qualityAlertMail({ lab, userName: u.name, lines: items })
+    return { kind: 'quality-alert' as const, to: [u.email], ...mail, dedupeKey: `quality-alert:${u.id}:${today}:${hash}` }
+  })
+  return [{ key: 'actions', items, messages }]
+}
+
 /** Everything a run on the lab-local date `today` would send. Reads only. */
 export async function planReminders(opts: { today?: IsoDate, now?: Date, settings?: MailSettings } = {}): Promise<ReminderPlan> {
   const settings = opts.settings ?? await mailSettingsRow()
@@ -244,6 +288,7 @@ export async function planReminders(opts: { today?: IsoDate, now?: Date, setting
   const groups = [
     ...await planCustomerGroups(today, rulesOf(settings), lab),
     ...await planEquipmentGroup(today, lab),
+    ...await planActionGroup(today, lab),
   ]
   return { today, groups }
 }

@@ -2,14 +2,14 @@ import { pruneHits } from '#server/utils/rateLimit'
 import { runDailyReminders } from '#server/services/reminders/reminders'
 
 /**
- * Recalibration reminders and reference-equipment alerts. Scheduled hourly (nuxt.config.ts);
+ * Recalibration reminders, reference-equipment alerts and overdue corrective actions. Scheduled hourly (nuxt.config.ts);
  * does its work from the configured send hour in the lab's time zone on, and is idempotent, so
  * the later hours of the day, and other server instances, send nothing twice.
  */
 export default defineTask({
   meta: {
     name: 'reminders:daily',
-    description: 'Queue due recalibration reminders and equipment alerts, then send the outbox',
+    description: 'Queue due recalibration reminders, equipment alerts and overdue corrective actions, then send the outbox',
   },
   async run() {
     await pruneHits()
