@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { dialectOf } from './lib'
+import { dialectOf, dropColumns } from './lib'
 
 /**
  * The registers: uploads, spectral responsivity tables, blackbody sources, reference
@@ -170,8 +170,8 @@ export async function down({ context: qi }: { context: QueryInterface }): Promis
   await qi.dropTable('blackbody_sources')
   await qi.dropTable('spectral_responses')
   await qi.dropTable('uploads')
-  await qi.removeColumn('organizations', 'country')
-  await qi.removeColumn('organizations', 'postcode')
-  await qi.removeColumn('organizations', 'city')
-  await qi.removeColumn('organizations', 'addressLines')
+  await dropColumns(qi, 'organizations', ['country'])
+  await dropColumns(qi, 'organizations', ['postcode'])
+  await dropColumns(qi, 'organizations', ['city'])
+  await dropColumns(qi, 'organizations', ['addressLines'])
 }

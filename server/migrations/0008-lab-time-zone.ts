@@ -1,3 +1,4 @@
+import { dropColumns } from './lib'
 import { DataTypes, type QueryInterface } from 'sequelize'
 
 /**
@@ -12,5 +13,5 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  await qi.removeColumn('lab_settings', 'timeZone')
+  await dropColumns(qi, 'lab_settings', ['timeZone'])
 }

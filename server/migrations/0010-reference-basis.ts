@@ -1,3 +1,4 @@
+import { dropColumns } from './lib'
 import { DataTypes, type QueryInterface } from 'sequelize'
 
 /**
@@ -66,9 +67,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  await qi.removeColumn('calibration_runs', 'spotDiameterMm')
-  for (const c of ['spotMargin', 'budgetFromEquipment', 'correlations']) await qi.removeColumn('procedure_versions', c)
-  for (const c of ['emissivityTable', 'certifiedCoverageFactor', 'certifiedExpandedUncertaintyK', 'certifiedReflectedTemperatureK', 'certifiedBandMedium', 'certifiedBandLambda2Um', 'certifiedBandLambda1Um', 'certifiedBasis']) {
-    await qi.removeColumn('blackbody_sources', c)
-  }
+  await dropColumns(qi, 'calibration_runs', ['spotDiameterMm'])
+  await dropColumns(qi, 'procedure_versions', ['spotMargin', 'budgetFromEquipment', 'correlations'])
+  await dropColumns(qi, 'blackbody_sources', ['emissivityTable', 'certifiedCoverageFactor', 'certifiedExpandedUncertaintyK', 'certifiedReflectedTemperatureK', 'certifiedBandMedium', 'certifiedBandLambda2Um', 'certifiedBandLambda1Um', 'certifiedBasis'])
 }

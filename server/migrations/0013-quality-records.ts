@@ -1,3 +1,4 @@
+import { dropColumns } from './lib'
 import { DataTypes, type QueryInterface } from 'sequelize'
 
 /**
@@ -213,10 +214,10 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
   for (const t of ['interval_decisions', 'corrective_action_items', 'corrective_actions', 'complaints', 'proficiency_results', 'check_results', 'check_plans', 'nonconformity_decisions', 'nonconformities']) await qi.dropTable(t)
-  await qi.removeColumn('equipment_calibrations', 'asFoundInTolerance')
-  await qi.removeColumn('equipment_calibrations', 'asFoundToleranceK')
-  await qi.removeColumn('equipment_calibrations', 'asFoundUncertaintyK')
-  await qi.removeColumn('equipment_calibrations', 'asFoundCorrections')
-  await qi.removeColumn('reference_instruments', 'statusReason')
-  await qi.removeColumn('blackbody_sources', 'statusReason')
+  await dropColumns(qi, 'equipment_calibrations', ['asFoundInTolerance'])
+  await dropColumns(qi, 'equipment_calibrations', ['asFoundToleranceK'])
+  await dropColumns(qi, 'equipment_calibrations', ['asFoundUncertaintyK'])
+  await dropColumns(qi, 'equipment_calibrations', ['asFoundCorrections'])
+  await dropColumns(qi, 'reference_instruments', ['statusReason'])
+  await dropColumns(qi, 'blackbody_sources', ['statusReason'])
 }

@@ -101,3 +101,13 @@ export async function dropGuard(qi: QueryInterface, name: string, table: string)
 export function pgAnyChanged(columns: readonly string[]): string {
   return columns.map(c => `NEW."${c}"::text IS DISTINCT FROM OLD."${c}"::text`).join(' OR ')
 }
+
+/**
+ * Drop columns on either engine with the database's own `ALTER TABLE … DROP COLUMN` (SQLite ≥ 3.35,
+ * PostgreSQL). Sequelize's SQLite `removeColumn` rebuilds the table from a description that loses
+ * composite unique indexes and triggers; the native statement keeps them. A column still named by
+ * an index or trigger must have it dropped first (SQLite refuses, which is the safe answer).
+ */
+export async function dropColumns(qi: QueryInterface, table: string, columns: readonly string[]): Promise<void> {
+  for (const c of columns) await qi.sequelize.query(`ALTER TABLE "${table}" DROP COLUMN "${c}"`)
+}
