@@ -18,7 +18,6 @@ beforeAll(async () => {
   const created = await tech.post('/api/runs', {
     instrumentId: instrument.id,
     procedureVersionId: plate.currentVersion.id,
-    receivedDate: '2026-11-20',
     calibrationDate: '2026-11-24',
     ambientTemperatureK: 296.15,
     relativeHumidityPct: 40,
@@ -30,6 +29,9 @@ beforeAll(async () => {
   })
   expect(created.status).toBe(201)
   runId = created.body.id
+  // Goods-in recorded the item's receipt (the certificate states it).
+  const received = await tech.post(`/api/runs/${runId}/receipt`, { receivedOn: '2026-11-20', packaging: 'Maker’s case, intact', condition: 'No visible damage' })
+  expect(received.status).toBe(200)
 })
 afterAll(async () => {
   await browser?.close()
@@ -67,15 +69,18 @@ describe('a calibration run, end to end', () => {
     expect(run.points).toHaveLength(5)
     for (const p of run.points) {
       expect(p.result.n).toBe(3)
+      // The plate's certified value is a radiance temperature: the engine found the plate's surface
+      // temperature from it (sourceTemperatureK); the calculation from that surface temperature agrees.
       const er = await tech.post('/api/calculations/expected-reading', {
         band: run.instrument.band,
-        sourceTemperatureK: p.result.referenceTemperatureK,
+        sourceTemperatureK: p.result.sourceTemperatureK ?? p.result.referenceTemperatureK,
         sourceEmissivity: p.result.inputs.sourceEmissivity,
         reflectedTemperatureK: run.reflectedTemperatureK,
         instrumentTemperatureK: run.instrumentTemperatureK,
         emissivitySetting: run.emissivitySetting,
       })
       expect(Math.abs(er.body.expectedReadingK - p.result.expectedReadingK)).toBeLessThan(1e-9)
+      expect(p.result.referenceBasis).toBe('radiance-temperature')
       const budget = await tech.post('/api/calculations/budget', {
         components: p.result.budget.components.map((c: { name: string, standardUncertainty: number, sensitivity: number, dof: number | null }) => ({ name: c.name, standardUncertainty: c.standardUncertainty, sensitivity: c.sensitivity, dof: c.dof })),
       })
@@ -94,7 +99,10 @@ describe('a calibration run, end to end', () => {
     await page.waitForSelector('[data-testid="point-budget"]')
     await page.waitForSelector('[data-testid="error-chart"] canvas')
     await shot(page, 'run-review')
+    // The reviewer sees what is approved and confirms.
+    expect(await page.getByTestId('review-summary').textContent()).toMatch(/5 points:[\s\S]*pass[\s\S]*Largest \|error\| \/ tolerance/)
     await page.getByTestId('approve-run').click()
+    await page.getByTestId('confirm-approve').click()
     await expect.poll(() => page.getByTestId('run-status').textContent()).toMatch(/approved/i)
     expect(await page.getByTestId('approved-note').textContent()).toContain('locked')
     expect(await page.locator('[data-row="0"] [data-col="readings"]').isDisabled()).toBe(true)
