@@ -2,15 +2,14 @@
 // issues, the stored PDF and its hash, the lock on certified runs, amendment, withdrawal, public
 // verification and customer isolation. One file, run in order, so the numbering checks see every
 // certificate issued meanwhile.
-import { execFileSync } from 'node:child_process'
 import crypto from 'node:crypto'
 import fs from 'node:fs'
-import os from 'node:os'
 import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { addMonths } from '../../shared/certificates/numbers'
 import { GOOD_RECEIPT, makeCustomer, makeInstrument, makeSource, organizationOf } from '../support/factories'
 import { BASE_URL, Client, DEMO_PASSWORD, signedIn, unique } from '../support/http'
+import { hasPdftotext, pdfText } from '../support/pdf'
 
 let tech: Client
 let quality: Client
@@ -24,16 +23,6 @@ let ownOrganizationName: string
 let otherInstrument: number
 let plate: { id: number, assetTag: string, calibration: { certificateNumber: string } | null }
 let versionId: number
-
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
 
 const HEADER = {
   procedureVersionId: 0, calibrationDate: '2026-11-25',
@@ -67,14 +56,6 @@ async function download(c: Client, id: number): Promise<{ status: number, type: 
 
 const sha256 = (b: Buffer) => crypto.createHash('sha256').update(b).digest('hex')
 const sequenceOf = (number: string) => Number(/-(\d+)$/.exec(number.replace(/-R\d+$/, ''))![1])
-
-function pdfText(bytes: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-cert-'))
-  const file = path.join(dir, 'c.pdf')
-  fs.writeFileSync(file, bytes)
-  // Words joined by single spaces, so a phrase is found whatever line it was broken over.
-  return execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
-}
 
 beforeAll(async () => {
   ;[tech, quality, admin, customer] = await Promise.all([signedIn('technician'), signedIn('quality'), signedIn('admin'), signedIn('customer')])

@@ -5,36 +5,16 @@
 // October–November 2026 or before 2026): the monthly checks of BB-FP-01 (2026-06-02), BB-CV-02
 // (2026-06-05) and BB-CV-03 (2026-06-12), all passed; the interlaboratory comparison RT-ILC-2026 reported
 // 2026-06-18 (E_n = 0.32, satisfactory); no nonconformity, complaint, corrective action, run or certificate.
-import { execFileSync } from 'node:child_process'
-import fs from 'node:fs'
-import os from 'node:os'
-import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { BASE_URL, signedIn, type Client } from '../support/http'
+import { hasPdftotext, pdfText } from '../support/pdf'
 
 let quality: Client
 let admin: Client
 
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
-
 async function pdf(c: Client, query: string): Promise<{ status: number, type: string | null, bytes: Buffer }> {
   const res = await fetch(`${BASE_URL}/api/quality/management-review/pdf?${query}`, { headers: { cookie: c.cookieHeader() } })
   return { status: res.status, type: res.headers.get('content-type'), bytes: Buffer.from(await res.arrayBuffer()) }
-}
-
-function pdfText(bytes: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-review-'))
-  const file = path.join(dir, 'r.pdf')
-  fs.writeFileSync(file, bytes)
-  return execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
 }
 
 /** The count lines as the PDF prints them (label: key of `counts`). */

@@ -3,13 +3,10 @@
 // nobody approves data they changed — setup checks that name their reason, voiding with a reason,
 // internal notes never printed, the draft preview, no certificate without a receipt record, and
 // issued data read back as issued. Records are made here (factories).
-import { execFileSync } from 'node:child_process'
-import fs from 'node:fs'
-import os from 'node:os'
-import path from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { makeInstrument, makeProcedure, makeRun, makeSource, organizationOf, GOOD_RECEIPT } from '../support/factories'
 import { BASE_URL, type Client, DEMO_PASSWORD, signedIn } from '../support/http'
+import { hasPdftotext, pdfText } from '../support/pdf'
 
 let tech: Client
 let quality: Client
@@ -38,23 +35,6 @@ async function submittedRun(): Promise<{ id: number, version: number, points: { 
 async function pdfBytes(c: Client, url: string): Promise<{ status: number, bytes: Buffer, type: string | null }> {
   const res = await fetch(`${BASE_URL}${url}`, { headers: { cookie: c.cookieHeader() } })
   return { status: res.status, type: res.headers.get('content-type'), bytes: Buffer.from(await res.arrayBuffer()) }
-}
-
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
-
-function pdfText(bytes: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-truth-'))
-  const file = path.join(dir, 'c.pdf')
-  fs.writeFileSync(file, bytes)
-  return execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
 }
 
 beforeAll(async () => {

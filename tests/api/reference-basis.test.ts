@@ -16,6 +16,7 @@ import { erf } from 'mathjs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { makeCustomer, makeInstrument, makeProcedure, makeReference, makeRun, makeSource } from '../support/factories'
 import { BASE_URL, type Client, signedIn } from '../support/http'
+import { hasPdftotext } from '../support/pdf'
 
 let tech: Client
 let quality: Client
@@ -28,16 +29,6 @@ const C2_CODATA = 1.438776877e-2
 const C2_ITS90 = 0.014388
 // Φ(z) = ½(1 + erf(z/√2)), erf from mathjs (independent of the engine's normal.ts)
 const phi = (z: number): number => 0.5 * (1 + (erf(z / Math.SQRT2) as number))
-
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
 
 // tests/reference/reference_basis.py, part 2
 // [label, b0 (µm), b0 in air, b (µm), T_rad K, eps_s, T_w0 K, T_w K, T_d K, eps_i, c2 m K, T_s K, T_meas K]

@@ -6,8 +6,6 @@
 // internal note. The lab reopens the certificate, a reading is corrected with a reason, and the
 // amendment -R1 states the change; the customer's contacts get both mails (local SMTP) and the
 // earlier certificate shows as superseded. A withdrawal shows on the instrument and on /verify.
-import { execFileSync } from 'node:child_process'
-import fs from 'node:fs'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
@@ -15,6 +13,7 @@ import type { Page as ListPage } from '../../shared/types'
 import type { InstrumentDTO } from '../../shared/types/registers'
 import { openBrowser, shot, signIn } from '../support/browser'
 import { BASE_URL, DEMO_ACCOUNTS, signedIn, type Client } from '../support/http'
+import { hasPdftotext, pdfText } from '../support/pdf'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let admin: Client
@@ -25,15 +24,6 @@ let original = { id: 0, number: '' }
 let amended = { id: 0, number: '', code: '' }
 
 const ARTIFACTS = path.resolve(import.meta.dirname, '../.artifacts/certificates')
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
 
 /** The bytes of a file the signed-in page can download (its session cookie goes along). */
 async function download(page: Page, url: string): Promise<Buffer> {
@@ -42,13 +32,6 @@ async function download(page: Page, url: string): Promise<Buffer> {
     return Array.from(new Uint8Array(await r.arrayBuffer()))
   }, url)
   return Buffer.from(bytes)
-}
-
-function pdfText(name: string, bytes: Buffer): string {
-  fs.mkdirSync(ARTIFACTS, { recursive: true })
-  const file = path.join(ARTIFACTS, `${name}.pdf`)
-  fs.writeFileSync(file, bytes)
-  return execFileSync('pdftotext', [file, '-']).toString('utf8').replace(/\s+/g, ' ')
 }
 
 async function signOut(page: Page) {
@@ -234,7 +217,7 @@ describe('a record that tells the truth', () => {
     const bytes = await download(page, `/api/certificates/${original.id}/pdf`)
     expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-')
     if (hasPdftotext) {
-      const text = pdfText(original.number, bytes)
+      const text = pdfText(bytes, path.join(ARTIFACTS, `${original.number}.pdf`))
       for (const s of ['Lens scratched near its edge', 'Calibrate as received', 'Specification and decision rule agreed with the customer', 'accepted by the customer in the portal',
         'Simple acceptance, w = 0', 'In the laboratory', 'n is the number of readings averaged', 'Readings taken with the instrument’s emissivity setting at 0.95']) {
         expect(text, s).toContain(s)
@@ -286,7 +269,7 @@ describe('a record that tells the truth', () => {
     amended.code = (await page.locator('dd.font-mono').first().textContent())!.trim()
     const bytes = await download(page, `/api/certificates/${amended.id}/pdf`)
     if (hasPdftotext) {
-      const text = pdfText(amended.number, bytes)
+      const text = pdfText(bytes, path.join(ARTIFACTS, `${amended.number}.pdf`))
       expect(text).toContain(`replaces certificate ${original.number}`)
       expect(text).toContain('What changed: point 2: reading 2 48.80 °C → 48.90 °C')
       expect(text).toContain('typed from the wrong line of the worksheet')

@@ -168,32 +168,28 @@ function assertCurrentTerms(r: CalibrationRequest, termsVersion: number): void {
   if (!r.terms || termsVersion !== r.termsVersion) conflict('These terms are not the current ones: reload the request', 'termsVersion')
 }
 
-/** The customer accepts the reviewed terms in the portal. */
-export async function agreeRequestIn(t: Transaction, user: SessionUser, id: number, input: RequestAgreeInput): Promise<CalibrationRequest> {
+/** The agreement to the current terms: by the customer in the portal, or recorded by the laboratory with how it was agreed. */
+async function agreeIn(t: Transaction, user: SessionUser, id: number, input: { version: number, termsVersion: number }, how: { method: 'portal' | 'recorded', note: string | null, action: string }): Promise<CalibrationRequest> {
   const r = await findRequest(user, id, t)
   assertVersion(r.version, input.version)
   assertStatus(r, ['reviewed', 'accepted'], 'agreed to')
   assertCurrentTerms(r, input.termsVersion)
   if (r.agreedTermsVersion === r.termsVersion) conflict('These terms are already agreed', 'termsVersion')
   await updateAudited(t, user, r, {
-    agreedTermsVersion: r.termsVersion, agreedAt: new Date(), agreedBy: user.id, agreementMethod: 'portal', agreementNote: null,
+    agreedTermsVersion: r.termsVersion, agreedAt: new Date(), agreedBy: user.id, agreementMethod: how.method, agreementNote: how.note,
     status: r.status === 'accepted' ? 'accepted' : 'agreed',
-  }, { entity: 'CalibrationRequest', action: 'agree' })
+  }, { entity: 'CalibrationRequest', action: how.action })
   return r
+}
+
+/** The customer accepts the reviewed terms in the portal. */
+export async function agreeRequestIn(t: Transaction, user: SessionUser, id: number, input: RequestAgreeInput): Promise<CalibrationRequest> {
+  return agreeIn(t, user, id, input, { method: 'portal', note: null, action: 'agree' })
 }
 
 /** The laboratory records how the customer agreed to the reviewed terms (by telephone, e-mail, order …). */
 export async function recordAgreementIn(t: Transaction, user: SessionUser, id: number, input: RequestRecordAgreementInput): Promise<CalibrationRequest> {
-  const r = await findRequest(user, id, t)
-  assertVersion(r.version, input.version)
-  assertStatus(r, ['reviewed', 'accepted'], 'agreed to')
-  assertCurrentTerms(r, input.termsVersion)
-  if (r.agreedTermsVersion === r.termsVersion) conflict('These terms are already agreed', 'termsVersion')
-  await updateAudited(t, user, r, {
-    agreedTermsVersion: r.termsVersion, agreedAt: new Date(), agreedBy: user.id, agreementMethod: 'recorded', agreementNote: input.note,
-    status: r.status === 'accepted' ? 'accepted' : 'agreed',
-  }, { entity: 'CalibrationRequest', action: 'record-agreement' })
-  return r
+  return agreeIn(t, user, id, input, { method: 'recorded', note: input.note, action: 'record-agreement' })
 }
 
 /**

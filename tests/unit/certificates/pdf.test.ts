@@ -7,16 +7,7 @@ import zlib from 'node:zlib'
 import { describe, expect, it } from 'vitest'
 import { certificatePdf, woffToSfnt } from '../../../server/services/certificates/pdf'
 import { sampleCertificateData } from '../../../server/services/certificates/sample'
-
-const hasPdftotext = (() => {
-  try {
-    execFileSync('which', ['pdftotext'], { stdio: 'ignore' })
-    return true
-  }
-  catch {
-    return false
-  }
-})()
+import { hasPdftotext } from '../../support/pdf'
 
 function text(pdf: Buffer): string {
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-pdf-')), 'c.pdf')
