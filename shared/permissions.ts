@@ -86,6 +86,24 @@ export const PERMISSIONS = {
   /** The quality manager's overview and the management-review summary (8.9). */
   'quality:overview': QUALITY_AND_ADMIN,
 
+  /**
+   * Billing (quotes, orders, invoices). Customers see their own organization's (404 otherwise) and
+   * never a draft quote; the administrator keeps the books — one permission, so a lab that wants an
+   * office role grants it here.
+   */
+  'quote:read': ['admin', 'customer'],
+  /** Accept a quote with a purchase-order number (which makes the order), or decline it. */
+  'quote:respond': ['customer'],
+  /** Orders and where they stand (the laboratory's staff follow them too). */
+  'order:read': ROLES,
+  /** Record the return of an order's instruments, with the carrier's tracking reference. */
+  'order:ship': LAB_ROLES,
+  'invoice:read': ['admin', 'customer'],
+  /** Pay an invoice by card through the hosted checkout. */
+  'invoice:pay': ['customer'],
+  /** Prices, quotes, invoices by hand, credit notes, bank transfers, the accounting export. */
+  'billing:manage': ['admin'],
+
   'settings:read': LAB_ROLES,
   'settings:edit': ['admin'],
   'user:manage': ['admin'],

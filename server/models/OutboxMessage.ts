@@ -2,6 +2,13 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import type { MailKind, OutboxStatus } from '#shared/schemas/mail'
 import { sequelize } from '#server/utils/db'
 
+/** A file sent with a message: its name, type and the SHA-256 under which the file store keeps it. */
+export interface MailAttachment {
+  filename: string
+  contentType: string
+  sha256: string
+}
+
 /**
  * One e-mail, written before it is sent (server/utils/outbox.ts delivers it). `dedupeKey` is
  * unique: the same message cannot be queued twice, whichever server instance tries. A sender
@@ -24,6 +31,8 @@ export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCr
   declare sentAt: CreationOptional<Date | null>
   declare claimedBy: CreationOptional<string | null>
   declare claimedUntil: CreationOptional<Date | null>
+  /** Files sent with the message (stored files, by SHA-256), or null. */
+  declare attachments: CreationOptional<MailAttachment[] | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 }
@@ -44,6 +53,7 @@ OutboxMessage.init(
     sentAt: { type: DataTypes.DATE, allowNull: true },
     claimedBy: { type: DataTypes.STRING(80), allowNull: true },
     claimedUntil: { type: DataTypes.DATE, allowNull: true },
+    attachments: { type: DataTypes.JSON, allowNull: true },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

@@ -1,8 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
 import { sequelize } from '#server/utils/db'
 
-/** What a reminder log row is about: a customer instrument, the lab's own source or reference instrument, or an action of a corrective action. */
-export type ReminderItemType = 'instrument' | 'source' | 'reference' | 'action'
+/** What a reminder log row is about: a customer instrument, the lab's own source or reference instrument, an action of a corrective action, or an overdue invoice. */
+export type ReminderItemType = 'instrument' | 'source' | 'reference' | 'action' | 'invoice'
 
 /**
  * One milestone of one due date that has been reminded about (shared/mail/milestones.ts):

@@ -7,7 +7,8 @@
  * - JSON everywhere: BODY_MAX_BYTES (default 1 MiB); CSV imports (JSON with the file's text) 8 MiB.
  * - Multipart (a file): only the routes that take files — uploads and a supplier's DCC for an
  *   equipment calibration (UPLOAD_MAX_BYTES + form overhead), and the public verification of a PDF.
- * - Open routes get the tightest limits: sign-in 8 KiB, verification of a PDF 4 MiB.
+ * - Open routes get the tightest limits: sign-in 8 KiB, verification of a PDF 4 MiB, the payment
+ *   provider's events 256 KiB.
  */
 import { createError, type H3Event } from 'h3'
 import { config } from './config'
@@ -29,6 +30,7 @@ export function bodyRuleFor(path: string): BodyRule {
   const c = config()
   if (path === '/api/auth/login') return { maxBytes: 8 * 1024, kinds: ['json'] }
   if (path === '/api/verify/file') return { maxBytes: 4 * 1024 * 1024, kinds: ['json', 'multipart', 'pdf'] }
+  if (path === '/api/payments/webhook') return { maxBytes: 256 * 1024, kinds: ['json'] }
   if (path === '/api/uploads') return { maxBytes: c.uploadMaxBytes + FORM_OVERHEAD, kinds: ['multipart'] }
   if (/^\/api\/(sources|reference-instruments)\/[^/]+\/calibrations\/dcc$/.test(path)) return { maxBytes: c.uploadMaxBytes + FORM_OVERHEAD, kinds: ['multipart'] }
   if (/\/import$/.test(path)) return { maxBytes: Math.max(IMPORT_MAX_BYTES, c.bodyMaxBytes), kinds: ['json'] }

@@ -61,6 +61,12 @@ export interface BandlightConfig {
   sessionPassword: string | null
   /** Laboratory identity used in mail before lab settings exist (LAB_NAME, LAB_ADDRESS). */
   lab: { name: string | null, address: string | null }
+  /**
+   * Card payment through the hosted checkout (STRIPE_SECRET_KEY, STRIPE_WEBHOOK_SECRET,
+   * STRIPE_API_BASE): without a secret key card payment is off; the API base points the SDK at
+   * another server (the local fake of demo, development and tests), null = the provider's own.
+   */
+  payments: { secretKey: string | null, webhookSecret: string | null, apiBase: string | null }
 }
 
 function raw(name: string): string | undefined {
@@ -84,6 +90,19 @@ function fileStorage(v: string | undefined): BandlightConfig['fileStorage'] {
   if (v === undefined) return null
   if (v === 'directory' || v === 'database') return v
   throw new Error(`FILE_STORAGE must be "directory" or "database" (got "${v}")`)
+}
+
+function paymentApiBase(v: string | undefined): string | null {
+  if (v === undefined) return null
+  let url: URL
+  try {
+    url = new URL(v)
+  }
+  catch {
+    throw new Error(`STRIPE_API_BASE must be an address such as http://127.0.0.1:12111 (got "${v}")`)
+  }
+  if (url.protocol !== 'http:' && url.protocol !== 'https:') throw new Error(`STRIPE_API_BASE must start with http:// or https:// (got "${v}")`)
+  return url.origin
 }
 
 function read(): BandlightConfig {
@@ -120,6 +139,7 @@ function read(): BandlightConfig {
     },
     sessionPassword: process.env.NUXT_SESSION_PASSWORD || null,
     lab: { name: raw('LAB_NAME') ?? null, address: raw('LAB_ADDRESS') ?? null },
+    payments: { secretKey: raw('STRIPE_SECRET_KEY') ?? null, webhookSecret: raw('STRIPE_WEBHOOK_SECRET') ?? null, apiBase: paymentApiBase(raw('STRIPE_API_BASE')) },
   }
 }
 

@@ -10,8 +10,11 @@
 /** ISO 4217 codes this product accepts: three capital letters. */
 export const CURRENCY_RE = /^[A-Z]{3}$/
 
-/** Largest amount one line or document may hold, in minor units (10¹² — a billion in major units). */
-export const MAX_MINOR = 1_000_000_000_000
+/** Largest unit price, in minor units (10⁸ — a million pounds or euros). */
+export const MAX_MINOR = 100_000_000
+
+/** Largest total of one document, in minor units: what a 32-bit database integer holds (2³¹ − 1). */
+export const MAX_DOCUMENT_MINOR = 2_147_483_647
 
 /**
  * Decimal places of a currency's minor unit (ISO 4217 "minor unit"), from the platform's Intl data:

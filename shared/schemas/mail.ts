@@ -9,8 +9,11 @@ export type OutboxStatus = (typeof OUTBOX_STATUSES)[number]
  * What a message is about. `reminder` goes to customer contacts, `equipment-alert` and
  * `quality-alert` (overdue corrective actions) to quality managers; complaint acknowledgements and
  * closing notices to the complainant; `nonconformity-notice` to the customers of affected work.
+ * Billing: quotes to the requester, an order's receipt and return, invoices and credit notes (with
+ * their PDF), payments received, and the weekly `invoice-overdue` reminder to the organization.
  */
-export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-reviewed', 'request-accepted', 'certificate-issued', 'certificate-amended', 'certificate-withdrawn', 'complaint-received', 'complaint-closed', 'nonconformity-notice', 'quality-alert'] as const
+export const MAIL_KINDS = ['reminder', 'equipment-alert', 'request-received', 'request-reviewed', 'request-accepted', 'certificate-issued', 'certificate-amended', 'certificate-withdrawn', 'complaint-received', 'complaint-closed', 'nonconformity-notice', 'quality-alert',
+  'quote-sent', 'order-received', 'order-returned', 'invoice-issued', 'credit-note-issued', 'invoice-overdue', 'payment-received'] as const
 export type MailKind = (typeof MAIL_KINDS)[number]
 
 export const outboxQuerySchema = pageQuerySchema.extend({

@@ -24,6 +24,8 @@ export interface ReceivedMessageDTO {
   text: string
   html: string | null
   date: string
+  /** Files that came with the message (name, type, size in bytes). */
+  attachments?: { filename: string, contentType: string, size: number }[]
 }
 
 export interface MailSettingsDTO {

@@ -37,6 +37,7 @@ import { clearSigningFailures, recordSigningFailure, signingPasswordWait } from 
 import { inTransaction } from '#server/utils/transaction'
 import { notifyCertificateAmended, notifyCertificateIssued, notifyCertificateWithdrawn } from '#server/services/mail/events'
 import { assertNotWithheld } from '#server/services/nonconformities/withhold'
+import { onCertificateChangedIn } from '#server/services/billing/invoices'
 import { runDetail } from '#server/services/runs/runs'
 import { labSettingsRow, numberFormat } from '#server/services/settings/labSettings'
 import { labToday } from '#server/services/settings/today'
@@ -191,6 +192,8 @@ export async function issueCertificateIn(t: Transaction, signer: Signer, runId: 
   await recordAudit(t, { userId: signer.user.id, action: auditAction, entity: 'Certificate', entityId: cert.id, after: snapshot(cert, ['content']) })
   await followLatestValid(t, signer.user.id, g.instrument.id, cert.number)
   await notifyCertificateIssued(t, cert)
+  // An order whose every certificate is now issued is invoiced in this transaction.
+  await onCertificateChangedIn(t, cert, 'issue', signer.user.id)
   return cert
 }
 
@@ -232,6 +235,8 @@ async function amendWithIn(t: Transaction, signer: Signer, old: Certificate, run
   await recordAudit(t, { userId: signer.user.id, action: 'amend', entity: 'Certificate', entityId: cert.id, after: { ...snapshot(cert, ['content']), reason, changes } })
   await followLatestValid(t, signer.user.id, g.instrument.id, cert.number)
   await notifyCertificateAmended(t, cert, old)
+  // Fewer points certified than invoiced: a credit note for the difference.
+  await onCertificateChangedIn(t, cert, 'amendment', signer.user.id)
   return cert
 }
 
@@ -318,6 +323,8 @@ export async function withdrawCertificateIn(t: Transaction, user: User, id: numb
   await updateAudited(t, user, cert, { status: 'withdrawn', withdrawnAt: new Date(), withdrawnBy: user.id, withdrawalReason: reason }, { entity: 'Certificate', action: 'withdraw', omit: ['content'], extra: { reason } })
   await followLatestValid(t, user.id, cert.instrumentId, cert.number)
   await notifyCertificateWithdrawn(t, cert)
+  // An invoiced calibration withdrawn is credited.
+  await onCertificateChangedIn(t, cert, 'withdrawal', user.id)
   return cert
 }
 

@@ -29,6 +29,9 @@ function asMessage(raw: unknown, id: string): ReceivedMessageDTO | null {
     text: str(r.text),
     html: typeof r.html === 'string' ? r.html : null,
     date: str(r.date),
+    attachments: Array.isArray(r.attachments)
+      ? r.attachments.filter((a): a is Record<string, unknown> => !!a && typeof a === 'object').map(a => ({ filename: str(a.filename), contentType: str(a.contentType), size: typeof a.size === 'number' ? a.size : 0 }))
+      : [],
   }
 }
 

@@ -21,7 +21,8 @@ import type { Page } from '#shared/types'
 import type { OutboxMessageDTO } from '#shared/types/mail'
 import { conflict, notFound } from '#server/utils/errors'
 import { inTransaction } from '#server/utils/transaction'
-import { OutboxMessage } from '#server/models/OutboxMessage'
+import { OutboxMessage, type MailAttachment } from '#server/models/OutboxMessage'
+import { contentHash, fileStore } from '#server/utils/fileStore'
 import { recordAudit } from '#server/utils/audit'
 import { INSTANCE_ID } from '#server/utils/instance'
 import { deliverMail, mailDomain, type OutgoingMail } from './transport'
@@ -44,6 +45,8 @@ export interface QueueInput {
   html: string | null
   /** Unique per message: queuing the same key again is refused by the database. */
   dedupeKey: string
+  /** Stored files to send with it (read from the file store when the message is sent). */
+  attachments?: MailAttachment[]
 }
 
 /** Queue one message inside the caller's transaction. */
@@ -56,6 +59,7 @@ export async function queueMail(t: Transaction, input: QueueInput): Promise<Outb
     text: input.text,
     html: input.html,
     dedupeKey: input.dedupeKey,
+    attachments: input.attachments?.length ? input.attachments : null,
     status: 'queued',
     attempts: 0,
     nextAttemptAt: new Date(),
@@ -63,12 +67,13 @@ export async function queueMail(t: Transaction, input: QueueInput): Promise<Outb
 }
 
 export interface EventMailInput {
-  kind: 'request-received' | 'request-reviewed' | 'request-accepted' | 'certificate-issued' | 'certificate-amended' | 'certificate-withdrawn' | 'complaint-received' | 'complaint-closed' | 'nonconformity-notice'
+  kind: Exclude<MailKind, 'reminder' | 'equipment-alert' | 'quality-alert' | 'invoice-overdue'>
   to: string[]
   subject: string
   text: string
   html: string | null
   dedupeKey: string
+  attachments?: MailAttachment[]
 }
 
 /**
@@ -121,6 +126,13 @@ export interface SendOptions {
   deliver?: (mail: OutgoingMail) => Promise<void>
 }
 
+/** The bytes of an attachment, checked against their hash (a missing or damaged file fails the attempt, which is retried). */
+async function attachmentBytes(sha256: string): Promise<Buffer> {
+  const data = await fileStore().get(sha256)
+  if (!data || contentHash(data) !== sha256) throw new Error(`attachment ${sha256} is missing from the file store`)
+  return data
+}
+
 /** Claim one queued row for this sender; true only when this call took it. */
 export async function claimMessage(id: number, instanceId: string, now: Date): Promise<boolean> {
   const [changed] = await OutboxMessage.update(
@@ -157,7 +169,10 @@ export async function sendQueued(opts: SendOptions = {}): Promise<SendResult> {
     if (!(await claimMessage(row.id, instanceId, now))) continue
     const mine = { id: row.id, claimedBy: instanceId }
     try {
-      await deliver({ to: row.recipients, subject: row.subject, text: row.text, html: row.html, messageId: `<outbox-${row.id}@${mailDomain()}>` })
+      const attachments = row.attachments?.length
+        ? await Promise.all(row.attachments.map(async a => ({ filename: a.filename, contentType: a.contentType, content: await attachmentBytes(a.sha256) })))
+        : undefined
+      await deliver({ to: row.recipients, subject: row.subject, text: row.text, html: row.html, messageId: `<outbox-${row.id}@${mailDomain()}>`, attachments })
       await OutboxMessage.update(
         { status: 'sent', sentAt: new Date(), attempts: row.attempts + 1, lastError: null, claimedBy: null, claimedUntil: null },
         { where: mine },

@@ -28,6 +28,8 @@ export interface OutgoingMail {
   html: string | null
   /** A stable Message-ID, so a receiver can tell a resend of the same outbox row. */
   messageId?: string
+  /** Files sent with the message (an invoice's PDF). */
+  attachments?: { filename: string, contentType: string, content: Buffer }[]
 }
 
 let cached: { url: string, transport: Transporter } | null = null
@@ -64,6 +66,7 @@ export async function deliverMail(mail: OutgoingMail): Promise<void> {
     text: mail.text,
     html: mail.html ?? undefined,
     messageId: mail.messageId,
+    attachments: mail.attachments?.map(a => ({ filename: a.filename, contentType: a.contentType, content: a.content })),
   })
 }
 

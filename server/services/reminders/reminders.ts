@@ -10,7 +10,9 @@
  *   latest calibration is due within 30 days (`due-soon`) or past due (`overdue`), one message per
  *   active quality manager;
  * - the quality managers: each action of an open corrective action not done after its due date
- *   (`overdue`, once per action and due date), one message per active quality manager.
+ *   (`overdue`, once per action and due date), one message per active quality manager;
+ * - customers with overdue invoices: weekly, one message per organization
+ *   (server/services/billing/overdue.ts).
  *
  * Idempotent: an organization's log rows and its outbox rows are written in one transaction, the
  * log key (itemType, itemId, dueDate, milestone) and the outbox dedupeKey are unique, so running
@@ -50,6 +52,7 @@ import { ReminderLog } from '#server/models/ReminderLog'
 import { queueMail, sendQueued, type SendOptions } from '#server/services/mail/outbox'
 import { mailSettingsRow } from '#server/services/mail/settings'
 import { labTimeZone } from '#server/services/settings/today'
+import { planInvoiceGroups } from '#server/services/billing/overdue'
 
 /** Reference equipment is reported this many days before its due date. */
 export const EQUIPMENT_WINDOW_DAYS = 30
@@ -289,6 +292,7 @@ export async function planReminders(opts: { today?: IsoDate, now?: Date, setting
     ...await planCustomerGroups(today, rulesOf(settings), lab),
     ...await planEquipmentGroup(today, lab),
     ...await planActionGroup(today, lab),
+    ...await planInvoiceGroups(today, lab),
   ]
   return { today, groups }
 }

@@ -15,6 +15,7 @@ import { User } from '#server/models/User'
 import { createAudited, snapshot, updateAudited } from '#server/utils/audit'
 import { assertVersion, invalidInput, conflict } from '#server/utils/errors'
 import { Certificate } from '#server/models/Certificate'
+import { onItemReceivedIn } from '#server/services/billing/orders'
 import { FROZEN_MESSAGE, findRun, markChanged, requireReason, type Actor } from './workflow'
 
 export function receiptDTO(r: ItemReceipt, receivedByName: string | null): ItemReceiptDTO {
@@ -71,6 +72,8 @@ export async function recordReceiptIn(t: Transaction, actor: Actor, runId: numbe
   }
   else {
     receipt = await createAudited(t, actor, ItemReceipt, { runId, receivedBy: actor.id, ...values }, { entity: 'ItemReceipt', action: 'receive' })
+    // An order's customer hears that the instrument arrived.
+    await onItemReceivedIn(t, run, receipt)
   }
   run.receivedDate = receipt.receivedOn
   await markChanged(t, run, actor)
