@@ -2,7 +2,8 @@
  * Runs the API and browser tests against one built server on a free port with a
  * temporary database seeded with the demo scenario (scripts/seed.ts, before the server starts), and a local mail server on another free
  * port whose messages land in <temp dir>/mailbox (BANDLIGHT_MAILBOX_DIR, also given to the
- * tests). `npm test` builds first.
+ * tests), and a local payment service (scripts/lib/paymentFake.ts; STRIPE_* for the server,
+ * BANDLIGHT_TEST_PAYMENT_URL and the secrets for the tests). `npm test` builds first.
  *
  * The engine: SQLite (a file in the temporary folder) unless `--db=postgres` is given or
  * BANDLIGHT_TEST_DB=postgres is set; then a throw-away PostgreSQL cluster (scripts/lib/postgres.ts)
@@ -18,6 +19,7 @@ import os from 'node:os'
 import path from 'node:path'
 import type { ChildProcess } from 'node:child_process'
 import { startMailSink } from './lib/mailSink'
+import { fakeSecrets, startPaymentFake, type PaymentFake } from './lib/paymentFake'
 import { startPostgres, type PostgresCluster } from './lib/postgres'
 import { SERVER_ENTRY, freePort, run, startServer } from './lib/server'
 
@@ -41,6 +43,7 @@ if (needsServer && !fs.existsSync(SERVER_ENTRY)) {
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'bandlight-test-'))
 let pg: PostgresCluster | null = null
 let server: ChildProcess | null = null
+let payments: PaymentFake | null = null
 let code = 1
 const sink = await startMailSink({ port: 0, dir: path.join(dir, 'mailbox'), quiet: true })
 try {
@@ -68,8 +71,13 @@ try {
   if (needsServer) {
     if ((await run(process.execPath, ['--import', 'tsx', 'scripts/seed.ts'], env)) !== 0) throw new Error('seeding failed')
     const port = await freePort()
-    server = await startServer(env, port, { quiet: true })
+    // The local payment service: the SDK calls it, it signs events to this server's webhook.
+    const secrets = fakeSecrets()
+    payments = await startPaymentFake({ port: 0, webhookUrl: `http://127.0.0.1:${port}/api/payments/webhook`, ...secrets, quiet: true })
+    const paymentEnv = { STRIPE_SECRET_KEY: secrets.secretKey, STRIPE_WEBHOOK_SECRET: secrets.webhookSecret, STRIPE_API_BASE: payments.url }
+    server = await startServer({ ...env, ...paymentEnv }, port, { quiet: true })
     testEnv.BANDLIGHT_TEST_URL = `http://127.0.0.1:${port}`
+    Object.assign(testEnv, paymentEnv, { BANDLIGHT_TEST_PAYMENT_URL: payments.url })
   }
   // The integration tests choose their own databases (tests/support/database.ts), not the server's.
   if (projects.includes('integration')) delete testEnv.DATABASE_URL
@@ -83,6 +91,7 @@ finally {
   server?.kill('SIGTERM')
   await new Promise(r => setTimeout(r, 300))
   await sink.close()
+  await payments?.close()
   await pg?.stop()
   fs.rmSync(dir, { recursive: true, force: true })
 }

@@ -10,6 +10,7 @@ import { Organization } from '#server/models/Organization'
 import { User } from '#server/models/User'
 import { recordAudit, snapshot } from '#server/utils/audit'
 import { writeTransaction } from '#server/utils/db'
+import { seedBilling } from './billing'
 import { seedCertificates } from './certificates'
 import { seedRegisters } from './registers'
 import { seedQuality } from './quality'
@@ -72,6 +73,7 @@ export async function seedDemo(): Promise<string> {
     created += await seedCertificates(t)
     created += await seedRequests(t)
     created += await seedQuality(t)
+    created += await seedBilling(t)
   })
   return created ? `${created} records created` : 'already present, nothing changed'
 }

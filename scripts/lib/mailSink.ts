@@ -1,7 +1,7 @@
 /**
  * A local SMTP server for the demo, development and tests: it accepts every message on
  * 127.0.0.1 (never another interface), without authentication or STARTTLS, and keeps each one
- * as a JSON file in `dir` — `{ id, from, to, subject, text, html, date, messageId }` — written
+ * as a JSON file in `dir` — `{ id, from, to, subject, text, html, date, messageId, attachments }` — written
  * under a temporary name and renamed, so a reader never sees half a message. Framework-free:
  * `npm run demo`, `npm run dev` and the test runner start it; the admin Mail page reads the
  * folder (server/utils/mailbox.ts) when the server is given BANDLIGHT_MAILBOX_DIR.
@@ -27,6 +27,8 @@ export interface StoredMessage {
   html: string | null
   date: string
   messageId: string | null
+  /** Files that came with the message: name, type and size (the bytes are not kept). */
+  attachments: { filename: string, contentType: string, size: number }[]
 }
 
 function addressText(a: AddressObject | AddressObject[] | undefined): string {
@@ -56,6 +58,7 @@ export async function startMailSink(opts: { port: number, dir: string, quiet?: b
             html: typeof parsed.html === 'string' ? parsed.html : null,
             date: date.toISOString(),
             messageId: parsed.messageId ?? null,
+            attachments: parsed.attachments.map(a => ({ filename: a.filename ?? '', contentType: a.contentType, size: a.size })),
           }
           const file = path.join(opts.dir, `${id}.json`)
           fs.writeFileSync(`${file}.part`, JSON.stringify(message, null, 2))
