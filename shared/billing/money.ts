@@ -48,6 +48,17 @@ export function toMinor(major: number, digits: number): number {
 }
 
 /**
+ * An amount as typed in a form box ("120.50", "1,234", "£ 95") as minor units; NaN for anything
+ * else — an empty box, letters, a negative amount, more decimals than the currency has.
+ * @example moneyTextToMinor('1,234.5', 2) // 123450
+ */
+export function moneyTextToMinor(text: string, digits: number): number {
+  const t = String(text ?? '').trim().replace(/[\s,]/g, '').replace(/^[£€$¥]/, '')
+  if (!/^(\d+(\.\d*)?|\.\d+)$/.test(t)) return Number.NaN
+  return toMinor(Number(t), digits)
+}
+
+/**
  * Minor units as major units, for a form box: 12050 → 120.5.
  * @example fromMinor(12050, 2) // 120.5
  */

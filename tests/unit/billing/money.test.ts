@@ -2,7 +2,7 @@
 // from zero (commercial rounding — common practice for invoice totals, and this product's rule),
 // and how amounts are written. Expected values are worked by hand below each check.
 import { describe, expect, it } from 'vitest'
-import { currencyDigits, formatMoney, minorToDecimal, percentToBasisPoints, taxOf, toMinor, totalsOf } from '../../../shared/billing/money'
+import { currencyDigits, formatMoney, minorToDecimal, moneyTextToMinor, percentToBasisPoints, taxOf, toMinor, totalsOf } from '../../../shared/billing/money'
 
 describe('currency minor units (ISO 4217 minor-unit column, through the platform Intl data)', () => {
   it('GBP and EUR have 2 decimals, JPY none, KWD 3', () => {
@@ -26,6 +26,15 @@ describe('toMinor: what people type, in minor units', () => {
     expect(percentToBasisPoints(7.7)).toBe(770)
     expect(percentToBasisPoints(20)).toBe(2000)
     expect(percentToBasisPoints(12.345)).toBeNaN()
+  })
+  it('reads a form box: separators and a leading symbol allowed, nothing else', () => {
+    expect(moneyTextToMinor('1,234.5', 2)).toBe(123450)
+    expect(moneyTextToMinor(' £ 95 ', 2)).toBe(9500)
+    expect(moneyTextToMinor('.5', 2)).toBe(50)
+    expect(moneyTextToMinor('', 2)).toBeNaN()
+    expect(moneyTextToMinor('-5', 2)).toBeNaN()
+    expect(moneyTextToMinor('12a', 2)).toBeNaN()
+    expect(moneyTextToMinor('1.234', 2)).toBeNaN()
   })
 })
 
