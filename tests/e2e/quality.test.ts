@@ -3,11 +3,13 @@
 // goes out of service with the reason; a nonconformity opens listing the certificates issued from
 // the work done with it; withholding refuses to sign another run that used it; the quality manager
 // withdraws one certificate (its customer gets the mail, local SMTP) and keeps the other with a
-// reason; the corrective action cannot close before its effectiveness check is recorded.
+// reason; the corrective action cannot close before its effectiveness check is recorded. Then a
+// calibration's as-found data out of tolerance opens a nonconformity and the interval review charts
+// the history and records a decision; and a customer complains on a phone.
 // Its own records (a source, customers, instruments, runs, certificates) come from the factories,
 // so it depends on nothing else.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, shot, shotBoth, signIn } from '../support/browser'
+import { openBrowser, PHONE, shot, shotBoth, signIn } from '../support/browser'
 import { issueCertificate, makeApprovedRun, makeCustomer, makeInstrument, makeProcedure, makeSource, pointOn } from '../support/factories'
 import { BASE_URL, DEMO_ACCOUNTS, DEMO_PASSWORD, signedIn, unique, type Client } from '../support/http'
 
@@ -213,5 +215,75 @@ describe('a source fails its intermediate check', () => {
     await page.getByTestId('close-form-submit').click()
     await expect.poll(() => page.getByTestId('nc-status').textContent()).toMatch(/closed/i)
     expect((await admin.get(`/api/sources/${source.id}`)).body.status).toBe('in-service')
+  })
+})
+
+describe('a calibration finds a source out of tolerance, and its interval is reviewed', () => {
+  it('records as-found data with a calibration: a nonconformity opens; the review charts the history and proposes intervals; a decision is recorded', async () => {
+    const quality = await signedIn('quality')
+    // Three earlier calibrations with their as-found corrections at 50 °C (0.05, 0.15, 0.25 K; tolerance ±0.5 K).
+    const plate = await makeSource(quality, { calibration: null })
+    for (const [year, found] of [[2023, 0.05], [2024, 0.15], [2025, 0.25]] as const) {
+      const r = await quality.post(`/api/sources/${plate.id}/calibrations`, {
+        provider: 'Testwick Thermal Standards', certificateNumber: unique('TC-'), calibrationDate: `${year}-06-01`, dueDate: `${year + 1}-06-01`,
+        asFound: { corrections: [[323.15, found]], standardUncertaintyK: 0.05, toleranceK: 0.5 },
+      })
+      expect(r.status, JSON.stringify(r.body)).toBe(201)
+    }
+    const { page } = browser
+    await page.goto(`${BASE_URL}/sources/${plate.id}`)
+    await page.getByTestId('add-calibration').click()
+    await page.locator('#provider').fill('Testwick Thermal Standards')
+    await page.locator('#certificateNumber').fill(unique('TC-'))
+    await page.locator('#calibrationDate').fill('2026-06-01')
+    await page.locator('#dueDate').fill('2027-06-01')
+    await page.locator('#asFoundGiven').check()
+    await page.getByTestId('as-found-add').click()
+    await page.locator('#as-found-0-0').fill('50')
+    await page.locator('#as-found-0-1').fill('0.6')
+    await page.locator('#asFoundU').fill('0.05')
+    await page.locator('#asFoundTolerance').fill('0.5')
+    await page.getByTestId('save-calibration').click()
+    await page.getByTestId('as-found-nc').waitFor()
+
+    await page.getByTestId('tab-interval').click()
+    await page.getByTestId('interval-chart').waitFor()
+    // Found out of tolerance last time: the staircase shortens the 12-month interval.
+    await expect.poll(() => page.getByTestId('staircase-proposal').textContent()).toMatch(/\d+ months/)
+    expect(await page.getByTestId('drift-proposal').textContent()).toMatch(/\d+ months/)
+    await page.getByTestId('record-interval-decision').click()
+    await page.locator('#iv-reason').fill('Follow the staircase while the drift is watched')
+    await page.getByTestId('save-interval-decision').click()
+    await expect.poll(() => page.getByTestId('interval-decisions').textContent()).toMatch(/Follow the staircase/)
+    await shotBoth(page, 'quality-interval-review')
+  })
+})
+
+describe('a customer complains in the portal', () => {
+  it('about one of its own certificates; the complaint is received and its outcome waits for the laboratory', async () => {
+    const phone = await openBrowser(PHONE)
+    try {
+      const { page } = phone
+      await signIn(page, DEMO_ACCOUNTS.customer)
+      await page.goto(`${BASE_URL}/complaints`)
+      await page.getByTestId('new-complaint').click()
+      await page.getByTestId('save-complaint').click()
+      await expect.poll(() => page.locator('[data-field-error="complaint-subject"]').textContent()).toMatch(/Subject is required/)
+      await page.locator('#complaint-subject').fill('The certificate names the wrong distance')
+      await page.locator('#complaint-description').fill('The certificate says 300 mm; we sent the instrument for 500 mm.')
+      // Its own certificates, fetched when the form opens.
+      await page.locator('#complaint-certificate option').nth(1).waitFor({ state: 'attached' })
+      const certificate = await page.locator('#complaint-certificate option').nth(1).getAttribute('value')
+      await page.locator('#complaint-certificate').selectOption(certificate!)
+      await shot(page, 'quality-complaint-form-390')
+      await page.getByTestId('save-complaint').click()
+      await page.waitForURL(/\/complaints\/\d+$/)
+      expect(await page.getByTestId('complaint-status').textContent()).toMatch(/Received/i)
+      expect(await page.getByTestId('complaint-outcome').textContent()).toMatch(/told the outcome by mail once the complaint is closed/)
+      expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0)
+    }
+    finally {
+      await phone.close()
+    }
   })
 })
