@@ -9,7 +9,7 @@
 // Its own records (a source, customers, instruments, runs, certificates) come from the factories,
 // so it depends on nothing else.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { openBrowser, PHONE, shot, shotBoth, signIn } from '../support/browser'
+import { openBrowser, pageOverflow, PHONE, shot, shotBoth, signIn } from '../support/browser'
 import { issueCertificate, makeApprovedRun, makeCustomer, makeInstrument, makeProcedure, makeSource, pointOn } from '../support/factories'
 import { BASE_URL, DEMO_ACCOUNTS, DEMO_PASSWORD, signedIn, unique, type Client } from '../support/http'
 
@@ -256,6 +256,30 @@ describe('a calibration finds a source out of tolerance, and its interval is rev
     await page.getByTestId('save-interval-decision').click()
     await expect.poll(() => page.getByTestId('interval-decisions').textContent()).toMatch(/Follow the staircase/)
     await shotBoth(page, 'quality-interval-review')
+  })
+})
+
+describe('the record forms', () => {
+  it('fit a phone and a wide screen (screenshots of each, none scrolls sideways at 390 px)', async () => {
+    const { page } = browser
+    const forms: [string, string, () => Promise<void>][] = [
+      ['/quality/checks', 'new-check-plan', async () => {}],
+      ['/quality/nonconformities', 'raise-nonconformity', async () => { await page.locator('#nc-item').selectOption(`source:${source.id}`); await page.getByTestId('nc-corrections-add').click() }],
+      ['/quality/proficiency', 'new-proficiency', async () => { await page.locator('#pt-type').selectOption('proficiency-test') }],
+      ['/complaints', 'new-complaint', async () => {}],
+    ]
+    const wide: string[] = []
+    for (const [path, button, fill] of forms) {
+      await page.goto(`${BASE_URL}${path}`)
+      await page.getByTestId(button).click()
+      await page.locator('form').first().waitFor()
+      await fill()
+      await shotBoth(page, `quality-form-${button}`)
+      await page.setViewportSize(PHONE)
+      if (await pageOverflow(page) > 0) wide.push(path)
+      await page.setViewportSize({ width: 1360, height: 860 })
+    }
+    expect(wide, 'forms wider than a phone').toEqual([])
   })
 })
 
