@@ -24,6 +24,7 @@ let mailB = ''
 let qualityUserId = 0
 let ncId = 0
 let ncNumber = ''
+let complaintId = 0
 
 /** What the local mail server received, newest first (the outbox sends every half second in tests). */
 async function received(): Promise<{ subject: string, to: string[] }[]> {
@@ -302,6 +303,7 @@ describe('a customer complains in the portal', () => {
       await shot(page, 'quality-complaint-form-390')
       await page.getByTestId('save-complaint').click()
       await page.waitForURL(/\/complaints\/\d+$/)
+      complaintId = Number(page.url().split('/').pop())
       expect(await page.getByTestId('complaint-status').textContent()).toMatch(/Received/i)
       expect(await page.getByTestId('complaint-outcome').textContent()).toMatch(/told the outcome by mail once the complaint is closed/)
       expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0)
@@ -309,5 +311,74 @@ describe('a customer complains in the portal', () => {
     finally {
       await phone.close()
     }
+  })
+})
+
+describe('the laboratory handles the other records', () => {
+  it('investigates the complaint and proposes the outcome; the signatory may not approve it, an administrator does', async () => {
+    const { page } = browser
+    await page.goto(`${BASE_URL}/complaints/${complaintId}`)
+    await page.getByTestId('edit-investigation').click()
+    await page.locator('#complaint-investigation').fill('The request asked for 300 mm; the customer\'s order form said 500 mm. Our contract review missed it.')
+    await page.getByTestId('save-investigation').click()
+    await expect.poll(() => page.getByTestId('complaint-status').textContent()).toMatch(/Under investigation/i)
+    await page.getByTestId('propose-outcome').click()
+    await page.locator('#complaint-outcome').fill('Complaint upheld: the instrument is recalibrated at 500 mm free of charge.')
+    await page.getByTestId('save-outcome').click()
+    await expect.poll(() => page.getByTestId('complaint-status').textContent()).toMatch(/awaiting approval/i)
+    // The quality manager signed the certificate complained about: the approval is explained, not offered.
+    expect(await page.getByTestId('approve-involved').count()).toBe(1)
+    expect(await page.getByTestId('approve-complaint').count()).toBe(0)
+    await shotBoth(page, 'quality-complaint-lab')
+    const other = await openBrowser()
+    try {
+      await signIn(other.page, DEMO_ACCOUNTS.admin)
+      await other.page.goto(`${BASE_URL}/complaints/${complaintId}`)
+      await other.page.getByTestId('approve-complaint').click()
+      await expect.poll(() => other.page.getByTestId('complaint-status').textContent()).toMatch(/Closed/i)
+    }
+    finally {
+      await other.close()
+    }
+  })
+
+  it('records an unsatisfactory comparison result, which opens a nonconformity', async () => {
+    const { page } = browser
+    await page.goto(`${BASE_URL}/quality/proficiency`)
+    await page.getByTestId('new-proficiency').click()
+    await page.locator('#pt-scheme').fill(unique('Test comparison '))
+    await page.locator('#pt-round').fill('T1')
+    await page.locator('#pt-artefact').fill('Transfer thermometer TT-1')
+    await page.locator('#pt-point').fill('200')
+    await page.locator('#pt-lab').fill('201.2')
+    await page.locator('#pt-lab-u').fill('0.4')
+    await page.locator('#pt-ref').fill('200')
+    await page.locator('#pt-ref-u').fill('0.3')
+    await page.getByTestId('save-proficiency').click()
+    // E_n = 1.2 / 0.5 = 2.4: unsatisfactory (ISO 13528:2015 9.7, |E_n| > 1).
+    await expect.poll(() => page.getByTestId('proficiency-nc').textContent()).toMatch(/Unsatisfactory[\s\S]*NC-\d{4}-\d{3}/)
+  })
+
+  it('raises a nonconformity by hand over the source\'s work and tells the customer of the certificate still valid', async () => {
+    const { page } = browser
+    await page.goto(`${BASE_URL}/quality/nonconformities`)
+    await page.getByTestId('raise-nonconformity').click()
+    await page.getByTestId('save-nonconformity').click()
+    await expect.poll(() => page.locator('[data-field-error="nc-title"]').textContent()).toMatch(/Title is required/)
+    await page.locator('#nc-title').fill('Plate emissivity label found worn')
+    await page.locator('#nc-description').fill('The emissivity label on the plate was unreadable; work may have used the wrong value.')
+    await page.locator('#nc-item').selectOption(`source:${source.id}`)
+    await page.locator('#nc-from').fill('2026-11-01')
+    await page.getByTestId('nc-corrections-add').click()
+    await page.locator('#nc-corrections-0-0').fill('50')
+    await page.locator('#nc-corrections-0-1').fill('0.1')
+    await page.getByTestId('save-nonconformity').click()
+    await page.waitForURL(/\/quality\/nonconformities\/\d+$/)
+    await expect.poll(() => page.getByTestId('affected-certificates').textContent()).toContain(kept.number)
+    await page.getByTestId('notify-customers').click()
+    await page.locator('#notify-message').fill('A label on one of our reference sources was worn; we are checking the results concerned and will write again.')
+    await page.getByTestId('send-notice').click()
+    await expect.poll(() => page.getByTestId('notices').textContent()).toMatch(/Testfield Kilns/)
+    await expect.poll(async () => (await received()).some(m => m.to.includes(mailB) && m.subject.includes('NC-')), { timeout: 20_000, interval: 500 }).toBe(true)
   })
 })
