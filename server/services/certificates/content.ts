@@ -250,7 +250,7 @@ function equationText(e: EquationTable): CertificateEquation {
     pointCount: e.pointCount,
     pointCorrelation: e.pointCorrelation,
     parameters: e.parameters.map(p => ({ name: p.name, valueText: sig(p.value, 7), uText: sig(p.standardUncertainty, 2), unit: p.unit })),
-    nominalText: `Aₙ = ${sig(e.nominal.A)} µm, Bₙ = ${sig(e.nominal.B)} µm·K, c₂ = ${sig(e.c2UmK, 10)} µm·K`,
+    nominalText: `A₀ = ${sig(e.nominal.A)} µm, B₀ = ${sig(e.nominal.B)} µm·K, c₂ = ${sig(e.c2UmK, 10)} µm·K`,
     chiSquaredText: sig(e.chiSquared, 3),
     degreesOfFreedom: e.degreesOfFreedom,
     rangeK: e.rangeK,

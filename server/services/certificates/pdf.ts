@@ -76,7 +76,7 @@ export interface CertificateEquation {
   pointCorrelation: number
   /** A, B, C with their standard uncertainties, as printed. */
   parameters: { name: string, valueText: string, uText: string, unit: string }[]
-  /** The nominal band's A_n, B_n and c2 that turn a reading into the signal fitted. */
+  /** The nominal band's A₀, B₀ and c₂ that turn a reading into the signal fitted. */
   nominalText: string
   chiSquaredText: string
   degreesOfFreedom: number
@@ -667,7 +667,7 @@ function imagerBlock(w: Writer, d: CertificateData, im: CertificateImager): void
 function equationBlock(w: Writer, d: CertificateData, eq: CertificateEquation): void {
   w.heading('Calibration equation (interpolated values)', 120)
   const params = eq.parameters.map(p => `${p.name} = ${p.valueText} ${p.unit === '1' ? '' : p.unit} (u = ${p.uText}${p.unit === '1' ? '' : ` ${p.unit}`})`.replace(/\s+\(/, ' (')).join(', ')
-  w.paragraph(`The Sakuma–Hattori equation was fitted by weighted least squares through the ${eq.pointCount} ${eq.points === 'as-left' ? 'as-left ' : ''}calibration points (${celsius(eq.rangeK.min, 1)} °C to ${celsius(eq.rangeK.max, 1)} °C), each weighted by its uncertainty${eq.pointCorrelation > 0 ? `, with a correlation coefficient r = ${formatFixed(eq.pointCorrelation, 2)} between the points` : ', taken as independent'}: T = c₂/(A·ln(C/s + 1)) − B/A, where s = 1/(exp(c₂/(Aₙ·R + Bₙ)) − 1) is the signal of the reading R in the instrument’s nominal band (${eq.nominalText}). Parameters: ${params}; χ² = ${eq.chiSquaredText} with ${eq.degreesOfFreedom} degree${eq.degreesOfFreedom === 1 ? '' : 's'} of freedom.`)
+  w.paragraph(`The Sakuma–Hattori equation was fitted by weighted least squares through the ${eq.pointCount} ${eq.points === 'as-left' ? 'as-left ' : ''}calibration points (${celsius(eq.rangeK.min, 1)} °C to ${celsius(eq.rangeK.max, 1)} °C), each weighted by its uncertainty${eq.pointCorrelation > 0 ? `, with a correlation coefficient r = ${formatFixed(eq.pointCorrelation, 2)} between the points` : ', taken as independent'}: T = c₂/(A·ln(C/s + 1)) − B/A, where s = 1/(exp(c₂/(A₀·R + B₀)) − 1) is the signal of the reading R in the instrument’s nominal band (${eq.nominalText}). Parameters: ${params}; χ² = ${eq.chiSquaredText} with ${eq.degreesOfFreedom} degree${eq.degreesOfFreedom === 1 ? '' : 's'} of freedom.`)
   const ws = widths([130, 120, 100, 0])
   smallTable(w, [
     { title: 'Temperature °C\n(interpolated)', w: ws[0]!, align: 'left' },
@@ -772,7 +772,7 @@ function niceStep(range: number): number {
 }
 
 function uncertaintyBlock(w: Writer, d: CertificateData): void {
-  w.heading('Measurement uncertainty', 50)
+  w.heading('Measurement uncertainty', 80)
   const ks = [...new Set(d.points.map(p => p.coverageFactor.toFixed(2)))]
   const normal = ks.every(k => k === '2.00')
   const kText = ks.length === 1 ? `k = ${ks[0]}` : `k from ${ks[0]} to ${ks[ks.length - 1]} as stated for each point`
