@@ -434,7 +434,8 @@ function itemBlock(w: Writer, d: CertificateData): void {
     ['Asset tag', i.assetTag ?? '—'],
   ], MARGIN.left, col, 80)
   const right = w.fields([
-    ['Spectral band', i.band],
+    // a ratio pyrometer's two bands on two rows
+    ...(d.ratio ? [['Band 1', d.ratio.band1], ['Band 2', d.ratio.band2]] as [string, string][] : [['Spectral band', i.band]] as [string, string][]),
     ['Measuring range', i.rangeText],
     ['Resolution', i.resolutionText],
     ['Specification', i.accuracyText],
@@ -480,7 +481,7 @@ function methodBlock(w: Writer, d: CertificateData): void {
   conditions.push(['Reflected temperature', `${celsius(e.reflectedK, 1)} °C`])
   if (e.instrumentK !== null) conditions.push(['Instrument temperature', `${celsius(e.instrumentK, 1)} °C`])
   if (d.imager) {
-    conditions.push(['Lens', d.imager.lens], ['Field of view', d.imager.fieldOfView], ['Range setting', d.imager.rangeSetting], ['Non-uniformity correction', d.imager.nonUniformityCorrection ? 'done before the measurements' : 'not done'])
+    conditions.push(['Lens', d.imager.lens], ['Field of view', d.imager.fieldOfView], ['Range setting', d.imager.rangeSetting], ['Non-uniformity correction', d.imager.nonUniformityCorrection ? 'done before measuring' : 'not done'])
   }
   const right = w.fields(conditions, MARGIN.left + col + 20, col, 108)
   w.y += Math.max(left, right) + 2
