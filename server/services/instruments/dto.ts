@@ -3,7 +3,7 @@ import { isPastDue } from '#shared/registers/dates'
 import type { InstrumentDTO } from '#shared/types'
 import type { Instrument } from '#server/models/Instrument'
 
-export function instrumentDTO(i: Instrument, names: { organization?: string | null, spectralResponse?: string | null } = {}, today: string): InstrumentDTO {
+export function instrumentDTO(i: Instrument, names: { organization?: string | null, spectralResponse?: string | null, band2SpectralResponse?: string | null } = {}, today: string): InstrumentDTO {
   return {
     id: i.id,
     organizationId: i.organizationId,
@@ -17,6 +17,11 @@ export function instrumentDTO(i: Instrument, names: { organization?: string | nu
     bandLambda2Um: i.bandLambda2Um ?? null,
     spectralResponseId: i.spectralResponseId ?? null,
     spectralResponseName: names.spectralResponse ?? i.spectralResponse?.name ?? null,
+    band2Lambda1Um: i.band2Lambda1Um ?? null,
+    band2Lambda2Um: i.band2Lambda2Um ?? null,
+    band2SpectralResponseId: i.band2SpectralResponseId ?? null,
+    band2SpectralResponseName: names.band2SpectralResponse ?? null,
+    emissivityRatioSetting: i.emissivityRatioSetting ?? null,
     distanceToSpot: i.distanceToSpot ?? null,
     rangeMinK: i.rangeMinK,
     rangeMaxK: i.rangeMaxK,
