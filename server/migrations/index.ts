@@ -15,6 +15,7 @@ import * as m0010 from './0010-reference-basis'
 import * as m0011 from './0011-shared-state'
 import * as m0012 from './0012-certificate-dcc'
 import * as m0013 from './0013-quality-records'
+import * as m0015 from './0015-speed'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -30,4 +31,5 @@ export const migrations = [
   { name: '0011-shared-state', ...m0011 },
   { name: '0012-certificate-dcc', ...m0012 },
   { name: '0013-quality-records', ...m0013 },
+  { name: '0015-speed', ...m0015 },
 ]
