@@ -163,6 +163,7 @@ export const ROUTE_ACCESS = {
 
   'GET /api/settings/lab': 'settings:read',
   'GET /api/settings/today': 'account:self',
+  'GET /api/overview': 'account:self',
   'PATCH /api/settings/lab': 'settings:edit',
 
   'GET /api/staff': 'run:read',

@@ -16,6 +16,7 @@ import * as m0011 from './0011-shared-state'
 import * as m0012 from './0012-certificate-dcc'
 import * as m0013 from './0013-quality-records'
 import * as m0014 from './0014-instrument-kinds'
+import * as m0015 from './0015-speed'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -32,4 +33,5 @@ export const migrations = [
   { name: '0012-certificate-dcc', ...m0012 },
   { name: '0013-quality-records', ...m0013 },
   { name: '0014-instrument-kinds', ...m0014 },
+  { name: '0015-speed', ...m0015 },
 ]

@@ -24,8 +24,8 @@ import { auditTrail } from '#server/services/audit/trail'
 import { spectralResponseDTO } from '#server/services/responsivities/dto'
 import { labToday } from '#server/services/settings/today'
 import { checkCsvRows, csvFromRows, markDuplicates, previewOf, refuseUnlessAllValid, rowError, sendCsv, withCsvShape, type CsvColumns } from '#server/utils/csv'
-import { instrumentFilter, instrumentOrder, queryInstruments } from './query'
-import { instrumentDTO } from './dto'
+import { instrumentFilter, instrumentOrder, queryInstrumentPage } from './query'
+import { instrumentDTO, instrumentListDTO } from './dto'
 import { assertVersion, invalidInput, notFound } from '#server/utils/errors'
 import { inTransaction } from '#server/utils/transaction'
 
@@ -152,8 +152,8 @@ export function visibleTo<T extends { notes: string | null }>(dto: T, user: { ro
 /** One page of instruments; a customer sees only its own organization's, whatever it asks for. */
 export async function listInstruments(user: SessionUser, q: InstrumentQuery): Promise<Page<InstrumentDTO>> {
   const organizationId = user.role === 'customer' ? (user.organizationId ?? -1) : q.organizationId
-  const { rows, total } = await queryInstruments({ ...q, organizationId })
-  return { rows: (await instrumentDTOs(rows)).map(r => visibleTo(r, user)), total, page: q.page, pageSize: q.pageSize }
+  const [{ rows, total }, today] = await Promise.all([queryInstrumentPage({ ...q, organizationId }), labToday()])
+  return { rows: rows.map(r => visibleTo(instrumentListDTO(r, today), user)), total, page: q.page, pageSize: q.pageSize }
 }
 
 /** An instrument with its responsivity table and (lab staff only) its audit trail; 404 outside the customer's organization. */
