@@ -132,6 +132,11 @@ export interface InstrumentListRow {
   bandLambda2Um: number | null
   spectralResponseId: number | null
   spectralResponseName: string | null
+  band2Lambda1Um: number | null
+  band2Lambda2Um: number | null
+  band2SpectralResponseId: number | null
+  band2SpectralResponseName: string | null
+  emissivityRatioSetting: number | null
   distanceToSpot: number | null
   rangeMinK: number
   rangeMaxK: number
@@ -151,7 +156,7 @@ export interface InstrumentListRow {
 }
 
 const LIST_COLUMNS = ['id', 'organizationId', 'serial', 'assetTag', 'maker', 'model', 'kind', 'bandLambda1Um', 'bandLambda2Um', 'spectralResponseId',
-  'distanceToSpot', 'rangeMinK', 'rangeMaxK', 'defaultEmissivity', 'resolutionK', 'accuracy', 'calibrationIntervalMonths', 'status', 'nextDueDate',
+  'band2Lambda1Um', 'band2Lambda2Um', 'band2SpectralResponseId', 'emissivityRatioSetting', 'distanceToSpot', 'rangeMinK', 'rangeMaxK', 'defaultEmissivity', 'resolutionK', 'accuracy', 'calibrationIntervalMonths', 'status', 'nextDueDate',
   'photoUploadId', 'notes', 'archived', 'version', 'createdAt', 'updatedAt'] as const
 
 /** A stored timestamp as ISO 8601: a Date (PostgreSQL) or SQLite's text as Sequelize writes it ('YYYY-MM-DD HH:MM:SS.SSS +00:00'). */
@@ -162,7 +167,7 @@ export function isoTimestamp(v: unknown): string {
   return m ? new Date(`${m[1]}T${m[2]}Z`).toISOString() : new Date(s).toISOString()
 }
 
-type RawListRow = Record<(typeof LIST_COLUMNS)[number] | 'organizationName' | 'spectralResponseName', unknown>
+type RawListRow = Record<(typeof LIST_COLUMNS)[number] | 'organizationName' | 'spectralResponseName' | 'band2SpectralResponseName', unknown>
 
 /** A row of the list's SQL as plain values, the same on both engines. */
 function listRow(r: RawListRow): InstrumentListRow {
@@ -175,14 +180,15 @@ function listRow(r: RawListRow): InstrumentListRow {
   }
 }
 
-/** Rows by id (with organization and responsivity names) in one query, in the order of `ids`. */
+/** Rows by id (with organization and both bands' responsivity names) in one query, in the order of `ids`. */
 export async function instrumentListRows(ids: readonly number[]): Promise<InstrumentListRow[]> {
   if (!ids.length) return []
   const rows = await sequelize.query<RawListRow>(
-    `SELECT ${LIST_COLUMNS.map(c => `i."${c}"`).join(', ')}, o.name AS "organizationName", s.name AS "spectralResponseName"
+    `SELECT ${LIST_COLUMNS.map(c => `i."${c}"`).join(', ')}, o.name AS "organizationName", s.name AS "spectralResponseName", s2.name AS "band2SpectralResponseName"
        FROM instruments i
        LEFT JOIN organizations o ON o.id = i."organizationId"
        LEFT JOIN spectral_responses s ON s.id = i."spectralResponseId"
+       LEFT JOIN spectral_responses s2 ON s2.id = i."band2SpectralResponseId"
       WHERE i.id IN (:ids)`,
     { type: QueryTypes.SELECT, replacements: { ids } },
   )
