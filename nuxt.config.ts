@@ -3,7 +3,7 @@ import { buildSync } from 'esbuild'
 
 /**
  * The Monte Carlo worker, bundled to one CommonJS string at build time so the built server
- * can start it with `new Worker(code, { eval: true })` (server/utils/monteCarlo.ts).
+ * can load it in its worker pool (server/services/calculations/pool.ts writes it to a private temporary file).
  */
 function monteCarloWorkerSource(): string {
   const result = buildSync({
@@ -62,6 +62,9 @@ export default defineNuxtConfig({
   nitro: {
     output: process.env.BANDLIGHT_OUTPUT_DIR ? { dir: process.env.BANDLIGHT_OUTPUT_DIR } : undefined,
     experimental: { tasks: true },
+    // Static files also as .br and .gz, served by Accept-Encoding; hashed files under /_nuxt/ are
+    // cached for a year (immutable) by Nuxt's own route rule.
+    compressPublicAssets: { gzip: true, brotli: true },
     // Hourly; the job itself checks the send hour in the lab's time zone (MailSettings).
     scheduledTasks: { '5 * * * *': ['reminders:daily'] },
     virtual: {

@@ -1,10 +1,12 @@
 import { problemText } from './forms/api'
+import type { FieldSpecs } from './forms/messages'
 
 /**
  * A button's request (archive, approve, upload …): busy while it runs, and the API's refusal in
- * words when it fails (each field's message with its label). `run` answers whether it succeeded.
+ * words when it fails (each field's message with its label, from `specs` where the API's field
+ * names are not the words people read). `run` answers whether it succeeded.
  */
-export function useAction() {
+export function useAction(specs: FieldSpecs = {}) {
   const message = ref('')
   const busy = ref(false)
   async function run(fn: () => Promise<unknown>): Promise<boolean> {
@@ -15,7 +17,7 @@ export function useAction() {
       return true
     }
     catch (err) {
-      message.value = problemText(err)
+      message.value = problemText(err, specs)
       return false
     }
     finally {

@@ -4,4 +4,4 @@
  * Bump the minor version when a result can change in its last digits, the major version when an
  * input or output changes meaning.
  */
-export const ENGINE_VERSION = '1.2.0'
+export const ENGINE_VERSION = '1.3.0'

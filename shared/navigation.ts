@@ -1,7 +1,7 @@
 import { can, rolesWith, type Permission } from './permissions'
 import type { Role } from './roles'
 
-export const NAV_GROUPS = ['Work', 'Registers', 'Administration'] as const
+export const NAV_GROUPS = ['Work', 'Quality', 'Registers', 'Administration'] as const
 export type NavGroup = (typeof NAV_GROUPS)[number]
 
 export interface NavItem {
@@ -23,10 +23,16 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/runs', label: 'Calibration runs', permission: 'run:read', group: 'Work' },
   { to: '/certificates', label: 'Certificates', permission: 'certificate:read', group: 'Work' },
   { to: '/requests', label: 'Calibration requests', permission: 'request:read', group: 'Work' },
+  { to: '/complaints', label: 'Complaints', permission: 'complaint:read', group: 'Work' },
   { to: '/calculator', label: 'Calculator', permission: 'calculation:run', group: 'Work' },
   { to: '/quotes', label: 'Quotes', permission: 'quote:read', group: 'Work' },
   { to: '/orders', label: 'Orders', permission: 'order:read', group: 'Work' },
   { to: '/invoices', label: 'Invoices', permission: 'invoice:read', group: 'Work' },
+  { to: '/quality', label: 'Quality overview', permission: 'quality:overview', group: 'Quality' },
+  { to: '/quality/checks', label: 'Checks', permission: 'check:read', group: 'Quality' },
+  { to: '/quality/nonconformities', label: 'Nonconformities', permission: 'nonconformity:read', group: 'Quality' },
+  { to: '/quality/actions', label: 'Corrective actions', permission: 'action:read', group: 'Quality' },
+  { to: '/quality/proficiency', label: 'Proficiency', permission: 'proficiency:read', group: 'Quality' },
   { to: '/instruments', label: 'Instruments', permission: 'instrument:read', group: 'Registers' },
   { to: '/customers', label: 'Customers', permission: 'customer:read', group: 'Registers' },
   { to: '/sources', label: 'Blackbody sources', permission: 'equipment:read', group: 'Registers' },

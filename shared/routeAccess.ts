@@ -20,6 +20,8 @@ export const ROUTE_ACCESS = {
   'POST /api/calculations/band-radiance': 'calculation:run',
   'POST /api/calculations/temperature': 'calculation:run',
   'POST /api/calculations/expected-reading': 'calculation:run',
+  'POST /api/calculations/ratio-reading': 'calculation:run',
+  'POST /api/calculations/calibration-equation': 'calculation:run',
   'POST /api/calculations/budget': 'calculation:run',
   'POST /api/calculations/conformity': 'calculation:run',
   'POST /api/calculations/monte-carlo': 'calculation:run',
@@ -186,6 +188,7 @@ export const ROUTE_ACCESS = {
 
   'GET /api/settings/lab': 'settings:read',
   'GET /api/settings/today': 'account:self',
+  'GET /api/overview': 'account:self',
   'PATCH /api/settings/lab': 'settings:edit',
 
   'GET /api/staff': 'run:read',

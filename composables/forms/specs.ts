@@ -27,3 +27,14 @@ export const EQUIPMENT_IDENTITY: FieldSpecs = {
   serial: 'Serial number',
   notes: 'Notes',
 }
+
+/**
+ * Rows of `[temperature, correction]` at `path`: the corrections a reference was found to need (true
+ * value − value used, K), edited with components/quality/CorrectionRows.vue.
+ */
+export const correctionRowSpecs = (path: string, label: string): FieldSpecs => ({
+  [path]: label,
+  [`${path}[*]`]: 'Row {n}',
+  [`${path}[*][0]`]: temperature('Temperature, row {n}'),
+  [`${path}[*][1]`]: difference('Correction, row {n}'),
+})

@@ -67,14 +67,14 @@ export async function runRunsBench(opts: { quick?: boolean } = {}): Promise<Runs
     const header = {
       instrumentId: instrument.id, procedureVersionId: procedure.currentVersionId!, calibrationDate: '2026-05-04',
       ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, spotDiameterMm: null, emissivitySetting: 0.95, reflectedTemperatureK: 296.15,
-      instrumentTemperatureK: 296.65, ambientInstrumentId: null, adjusted: false, internalNotes: null, certificateRemarks: null,
+      instrumentTemperatureK: 296.65, emissivityRatioSetting: null, imagerSettings: null, calibrationEquation: null, ambientInstrumentId: null, adjusted: false, internalNotes: null, certificateRemarks: null,
       methodDeviations: null, placeOfCalibration: 'laboratory' as const, siteAddress: null,
     }
     const save = () => inTransaction(async (t) => {
       const run = await createRunIn(t, actor, header)
       await addPointsIn(t, actor, run.id, setPoints.map(sp => ({
         stage: 'as-found' as const, sourceId: plate.id, setPointK: sp, sourceIndicatedK: sp, referenceInstrumentId: null, referenceReadingK: null,
-        readingsK: [sp + 0.1, sp + 0.2, sp + 0.1, sp + 0.3, sp + 0.2], reason: undefined,
+        readingsK: [sp + 0.1, sp + 0.2, sp + 0.1, sp + 0.3, sp + 0.2], rois: null, netdFrames: null, reason: undefined,
       })))
       return run
     })

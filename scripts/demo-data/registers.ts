@@ -14,6 +14,10 @@
  * a range of set-points is recorded with its largest U. The 8–14 µm cavity's register also holds the
  * maker's spectral emissivity down to 1.5 µm, so the 2.2 µm demo pyrometer can use it; the plate's
  * table covers 7–15 µm, the span of the tabulated 8–14 µm responsivity.
+ *
+ * The ratio (two-colour) pyrometers have two bands, 0.95–1.00 µm and 1.00–1.05 µm, and the
+ * emissivity-ratio setting 1; a demo database made before they were recorded gets them on the next seed
+ * (once, with an audit row).
  */
 import crypto from 'node:crypto'
 import type { Transaction } from 'sequelize'
@@ -130,6 +134,9 @@ interface InstrumentModel {
   distanceToSpot: number | null
   intervalMonths: number
   prefix: string
+  /** A ratio pyrometer's second band (µm) and its emissivity-ratio setting. */
+  band2?: [number, number]
+  ratioSetting?: number
 }
 
 const MODELS: Record<string, InstrumentModel> = {
@@ -139,7 +146,7 @@ const MODELS: Record<string, InstrumentModel> = {
   flame39: { maker: 'Tessaly Thermal', model: 'TX-39 Flame', kind: 'fixed-pyrometer', band: [3.8, 4.0], rangeK: [C(300), C(1300)], emissivity: 1, resolutionK: 1, accuracy: { kind: 'percentPlus', a: 0.5, b: 2 }, distanceToSpot: 50, intervalMonths: 12, prefix: 'TT39' },
   fixed22: { maker: 'Ardent Pyrometry', model: 'AP-22', kind: 'fixed-pyrometer', band: [2.0, 2.4], rangeK: [C(250), C(1000)], emissivity: 1, resolutionK: 0.5, accuracy: { kind: 'greaterOf', a: 0.5, b: 2 }, distanceToSpot: 80, intervalMonths: 12, prefix: 'AP22' },
   fibre16: { maker: 'Ardent Pyrometry', model: 'AP-16F Fibre', kind: 'fibre-optic-pyrometer', band: [1.5, 1.7], rangeK: [C(300), C(1600)], emissivity: 1, resolutionK: 1, accuracy: { kind: 'percentOfReading', a: 0.4 }, distanceToSpot: 100, intervalMonths: 24, prefix: 'AP16' },
-  ratio10: { maker: 'Calderon Optics', model: 'CR-10 Ratio', kind: 'ratio-pyrometer', band: [0.95, 1.05], rangeK: [C(700), C(2000)], emissivity: 1, resolutionK: 1, accuracy: { kind: 'percentPlus', a: 0.5, b: 3 }, distanceToSpot: 150, intervalMonths: 24, prefix: 'CR10' },
+  ratio10: { maker: 'Calderon Optics', model: 'CR-10 Ratio', kind: 'ratio-pyrometer', band: [0.95, 1.0], band2: [1.0, 1.05], ratioSetting: 1, rangeK: [C(700), C(2000)], emissivity: 1, resolutionK: 1, accuracy: { kind: 'percentPlus', a: 0.5, b: 3 }, distanceToSpot: 150, intervalMonths: 24, prefix: 'CR10' },
   optical065: { maker: 'Calderon Optics', model: 'CP-065 Optical', kind: 'fixed-pyrometer', band: [0.64, 0.66], rangeK: [C(700), C(2500)], emissivity: 1, resolutionK: 1, accuracy: { kind: 'absolute', b: 5 }, distanceToSpot: 200, intervalMonths: 24, prefix: 'CP065' },
 }
 
@@ -226,7 +233,17 @@ export async function seedRegisters(t: Transaction): Promise<number> {
         k++
         const serial = `${m.prefix}-${fleet.tag}${String(1000 + n * 37).padStart(5, '0')}`
         const exists = await Instrument.findOne({ where: { organizationId: org.id, maker: m.maker, model: m.model, serial }, transaction: t })
-        if (exists) continue
+        if (exists) {
+          // a ratio pyrometer recorded with one band before the second was recorded: give it both
+          if (m.band2 && exists.band2Lambda1Um == null && exists.band2SpectralResponseId == null && m.band !== 'table') {
+            const before = snapshot(exists)
+            exists.set({ bandLambda1Um: m.band[0], bandLambda2Um: m.band[1], band2Lambda1Um: m.band2[0], band2Lambda2Um: m.band2[1], emissivityRatioSetting: m.ratioSetting ?? 1 })
+            await exists.save({ transaction: t })
+            await recordAudit(t, { userId: null, action: 'seed', entity: 'Instrument', entityId: exists.id, before, after: snapshot(exists) })
+            created++
+          }
+          continue
+        }
         // Due dates spread over the year after the demo's today (2026-12-01); two are overdue.
         const month = (n * 5) % 12
         const year = month === 11 ? 2026 : 2027
@@ -242,6 +259,10 @@ export async function seedRegisters(t: Transaction): Promise<number> {
           bandLambda1Um: m.band === 'table' ? null : m.band[0],
           bandLambda2Um: m.band === 'table' ? null : m.band[1],
           spectralResponseId: m.band === 'table' ? table.id : null,
+          band2Lambda1Um: m.band2?.[0] ?? null,
+          band2Lambda2Um: m.band2?.[1] ?? null,
+          band2SpectralResponseId: null,
+          emissivityRatioSetting: m.band2 ? (m.ratioSetting ?? 1) : null,
           distanceToSpot: m.distanceToSpot,
           rangeMinK: m.rangeK[0],
           rangeMaxK: m.rangeK[1],

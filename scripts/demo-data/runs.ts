@@ -8,12 +8,16 @@
  * the item, the measured conditions, the points, then review. Readings are invented: the expected
  * reading plus a chosen error and a little scatter, rounded to the display resolution. Performed by
  * the demo technician; approved and returned by the demo quality manager (separation of duties).
+ * The thermal imager BF-IR-009's run records five regions of interest (the centre and four towards the
+ * corners of its 320 × 240 image) at each of its three points, its lens, field of view, range setting and
+ * non-uniformity correction, and a 16-frame series on the plate at 50 °C for the NETD (all invented).
  * Idempotent by natural keys: procedure name; instrument + calibration date for a run.
  */
 import type { Transaction } from 'sequelize'
 import type { PointStage } from '#shared/calibration/constants'
 import { computePoint } from '#shared/calibration/compute'
 import type { ProcedureCreateInput } from '#shared/schemas/procedure'
+import type { ImagerSettings, RoiFramesInput, RoiInput } from '#shared/schemas/run'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import { CalibrationRun } from '#server/models/CalibrationRun'
 import { Instrument } from '#server/models/Instrument'
@@ -114,7 +118,32 @@ interface DemoRun {
   noSpecification?: boolean
   receipt: DemoReceipt
   points: DemoPoint[]
+  /** A thermal imager's run: its settings, its regions of interest and the set-point (°C) of its NETD frame series. */
+  imager?: DemoImager
 }
+
+interface DemoImager {
+  settings: ImagerSettings
+  /** Position and size (pixels) and the ROI's offset from the centre on the uniform plate, K (invented non-uniformity). */
+  rois: { name: string, xPx: number, yPx: number, widthPx: number, heightPx: number, offsetK: number }[]
+  netdAtC: number
+}
+
+/** The demo imager's five regions of interest on its 320 × 240 image (invented offsets). */
+const IMAGER: DemoImager = {
+  settings: { lens: 'Standard 25 mm lens', fieldOfView: '24° × 18°', rangeSetting: '−20 °C to 150 °C', nonUniformityCorrection: true },
+  rois: [
+    { name: 'centre', xPx: 150, yPx: 110, widthPx: 20, heightPx: 20, offsetK: 0 },
+    { name: 'top-left', xPx: 40, yPx: 30, widthPx: 20, heightPx: 20, offsetK: -0.3 },
+    { name: 'top-right', xPx: 260, yPx: 30, widthPx: 20, heightPx: 20, offsetK: -0.2 },
+    { name: 'bottom-left', xPx: 40, yPx: 190, widthPx: 20, heightPx: 20, offsetK: -0.4 },
+    { name: 'bottom-right', xPx: 260, yPx: 190, widthPx: 20, heightPx: 20, offsetK: 0.1 },
+  ],
+  netdAtC: 50,
+}
+
+/** Invented frame-to-frame noise of the imager on the uniform plate, K (16 frames). */
+const FRAME_NOISE = [0.04, -0.03, 0.01, -0.05, 0.02, 0.03, -0.01, -0.04, 0.05, -0.02, 0.0, 0.03, -0.03, 0.02, -0.01, 0.01]
 
 const PLATE = 'BB-FP-01'
 const CAVITY = 'BB-CV-02'
@@ -124,7 +153,7 @@ const DEMO_RUNS: DemoRun[] = [
   { instrumentTag: 'KF-IR-013', procedure: 0, receivedDate: '2026-11-02', calibrationDate: '2026-11-09', status: 'approved', emissivitySetting: 0.95,
     receipt: { packaging: 'Maker’s carry case, intact', condition: 'Lens scratched near its edge; housing and display undamaged.', accessories: 'Wrist strap', deviations: 'Lens scratched near its edge.', customerDecision: 'Calibrate as received; the customer will replace the lens at the next service.' },
     points: [{ source: PLATE, setC: 0, errorK: 0.3 }, { source: PLATE, setC: 50, errorK: 0.2 }, { source: PLATE, setC: 100, errorK: -0.4 }] },
-  { instrumentTag: 'BF-IR-009', procedure: 0, receivedDate: '2026-11-16', calibrationDate: '2026-11-20', status: 'submitted', emissivitySetting: 0.95, spotDiameterMm: 12, receipt: CASE_OK,
+  { instrumentTag: 'BF-IR-009', procedure: 0, receivedDate: '2026-11-16', calibrationDate: '2026-11-20', status: 'submitted', emissivitySetting: 0.95, spotDiameterMm: 12, receipt: CASE_OK, imager: IMAGER,
     points: [{ source: PLATE, setC: 0, errorK: -0.6 }, { source: PLATE, setC: 50, errorK: -0.9 }, { source: PLATE, setC: 100, errorK: -1.2 }] },
   { instrumentTag: 'PG-IR-008', procedure: 0, receivedDate: '2026-11-12', calibrationDate: '2026-11-18', status: 'returned', emissivitySetting: 0.95, receipt: { packaging: 'Padded envelope', condition: 'No visible damage.' },
     comments: 'The 100 °C readings scatter more than the other points: check the plate had settled and repeat the point.',
@@ -243,6 +272,7 @@ export async function seedRuns(t: Transaction): Promise<number> {
       spotDiameterMm: spec.spotDiameterMm ?? null,
       ambientInstrumentId: ambientSensor?.id ?? null,
       adjusted: !!spec.adjusted,
+      ...(spec.imager ? { imagerSettings: spec.imager.settings } : {}),
       internalNotes: spec.internalNotes ?? null,
       certificateRemarks: spec.certificateRemarks ?? null,
       version: run!.version,
@@ -263,13 +293,24 @@ export async function seedRuns(t: Transaction): Promise<number> {
         // The reference thermometer reads a little off the set-point, as it would.
         referenceReadingK: ref ? Math.round((setPointK + 0.12) * 1000) / 1000 : null,
         readingsK: [setPointK],
+        rois: null,
+        netdFrames: null,
       }
       const used = await new Equipment(t, run.calibrationDate).used(obs)
       const expected = computePoint(computationInput(run, ctx, obs, source, used)).expectedReadingK
       const step = instrument.resolutionK
-      const readingsK = SCATTER.map(s => Math.round(Math.round((expected - 273.15 + pt.errorK + s) / step) * step * 1000) / 1000 + 273.15)
-        .map(r => Math.round(r * 1000) / 1000)
-      await addPointIn(t, technician, run.id, { ...obs, readingsK, reason: undefined }, 'seed')
+      const reading = (offsetK: number, s: number) => Math.round((Math.round(Math.round((expected - 273.15 + pt.errorK + offsetK + s) / step) * step * 1000) / 1000 + 273.15) * 1000) / 1000
+      const readingsK = SCATTER.map(s => reading(0, s))
+      let rois: RoiInput[] | null = null
+      let netdFrames: RoiFramesInput[] | null = null
+      if (spec.imager) {
+        // each ROI with its own offset and the scatter turned round, so that ROIs do not read alike
+        rois = spec.imager.rois.map(({ offsetK, ...roi }, j) => ({ ...roi, readingsK: j === 0 ? readingsK : SCATTER.map((_, i) => reading(offsetK, SCATTER[(i + j) % SCATTER.length]!)) }))
+        if (pt.setC === spec.imager.netdAtC) {
+          netdFrames = spec.imager.rois.map(({ name }, j) => ({ name, framesK: FRAME_NOISE.map((_, i) => Math.round((expected + pt.errorK + FRAME_NOISE[(i + 3 * j) % FRAME_NOISE.length]!) * 1000) / 1000) }))
+        }
+      }
+      await addPointIn(t, technician, run.id, { ...obs, readingsK, rois, netdFrames, reason: undefined }, 'seed')
       created++
     }
     if (spec.status === 'draft') continue

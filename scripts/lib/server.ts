@@ -26,9 +26,10 @@ export function buildIsStale(): boolean {
   return SOURCES.some(s => newestMtime(path.join(ROOT, s)) > built)
 }
 
-export function run(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env): Promise<number> {
+/** Run a command (in `cwd`, default the checkout) and resolve with its exit code. */
+export function run(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env, cwd: string = ROOT): Promise<number> {
   return new Promise((resolve) => {
-    const child = spawn(cmd, args, { cwd: ROOT, env, stdio: 'inherit' })
+    const child = spawn(cmd, args, { cwd, env, stdio: 'inherit' })
     child.on('exit', code => resolve(code ?? 1))
   })
 }
@@ -45,10 +46,13 @@ export function freePort(): Promise<number> {
   })
 }
 
-/** Start the built server and wait until /api/health answers ok. */
-export async function startServer(env: NodeJS.ProcessEnv, port: number, opts: { quiet?: boolean } = {}): Promise<ChildProcess> {
-  const child = spawn(process.execPath, [SERVER_ENTRY], {
-    cwd: ROOT,
+/**
+ * Start the built server and wait until /api/health answers ok. `entry` and `cwd` start another
+ * build (the benchmark's baseline, scripts/bench/baseline.ts); by default this checkout's.
+ */
+export async function startServer(env: NodeJS.ProcessEnv, port: number, opts: { quiet?: boolean, entry?: string, cwd?: string } = {}): Promise<ChildProcess> {
+  const child = spawn(process.execPath, [opts.entry ?? SERVER_ENTRY], {
+    cwd: opts.cwd ?? ROOT,
     env: { ...env, PORT: String(port), NODE_ENV: 'production' },
     stdio: opts.quiet ? ['ignore', 'ignore', 'inherit'] : 'inherit',
   })

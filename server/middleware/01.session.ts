@@ -1,4 +1,5 @@
 import { OPEN_API_PATHS } from '#shared/routeAccess'
+import { hasSessionCookie } from '#server/services/auth/sessions'
 
 /**
  * Every /api route needs a session, except the open ones (`open` in shared/routeAccess.ts).
@@ -8,8 +9,7 @@ export default defineEventHandler(async (event) => {
   const path = event.path.split('?')[0]!.replace(/\/+$/, '')
   if (!path.startsWith('/api/') && path !== '/api') return
   if (OPEN_API_PATHS.includes(path)) return
-  const session = await getUserSession(event)
-  if (!session.user) {
+  if (!(await hasSessionCookie(event))) {
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Sign in to continue' })
   }
 })

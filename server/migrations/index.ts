@@ -15,6 +15,8 @@ import * as m0010 from './0010-reference-basis'
 import * as m0011 from './0011-shared-state'
 import * as m0012 from './0012-certificate-dcc'
 import * as m0013 from './0013-quality-records'
+import * as m0014 from './0014-instrument-kinds'
+import * as m0015 from './0015-speed'
 import * as m0016 from './0016-billing'
 
 export const migrations = [
@@ -31,5 +33,7 @@ export const migrations = [
   { name: '0011-shared-state', ...m0011 },
   { name: '0012-certificate-dcc', ...m0012 },
   { name: '0013-quality-records', ...m0013 },
+  { name: '0014-instrument-kinds', ...m0014 },
+  { name: '0015-speed', ...m0015 },
   { name: '0016-billing', ...m0016 },
 ]

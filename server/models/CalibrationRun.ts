@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
 import type { PlaceOfCalibration, RunStatus } from '#shared/calibration/constants'
+import type { CalibrationEquationSettings, ImagerSettings } from '#shared/schemas/run'
 import { sequelize } from '#server/utils/db'
 
 /**
@@ -27,6 +28,12 @@ export class CalibrationRun extends Model<InferAttributes<CalibrationRun>, Infer
   declare emissivitySetting: number | null
   declare reflectedTemperatureK: number | null
   declare instrumentTemperatureK: number | null
+  /** A ratio pyrometer's emissivity-ratio setting in the run (migration 0014). */
+  declare emissivityRatioSetting: CreationOptional<number | null>
+  /** A thermal imager's lens, field of view, range setting and NUC (migration 0014). */
+  declare imagerSettings: CreationOptional<ImagerSettings | null>
+  /** The calibration equation's table temperatures and the points' correlation (migration 0014). */
+  declare calibrationEquation: CreationOptional<CalibrationEquationSettings | null>
   declare adjusted: boolean
   declare status: CreationOptional<RunStatus>
   declare submittedAt: Date | null
@@ -76,6 +83,9 @@ CalibrationRun.init(
     emissivitySetting: { type: DataTypes.DOUBLE, allowNull: true },
     reflectedTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
     instrumentTemperatureK: { type: DataTypes.DOUBLE, allowNull: true },
+    emissivityRatioSetting: { type: DataTypes.DOUBLE, allowNull: true },
+    imagerSettings: { type: DataTypes.JSON, allowNull: true },
+    calibrationEquation: { type: DataTypes.JSON, allowNull: true },
     adjusted: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     status: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'draft' },
     submittedAt: { type: DataTypes.DATE, allowNull: true },

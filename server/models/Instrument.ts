@@ -7,7 +7,8 @@ import { SpectralResponse } from './SpectralResponse'
 
 /**
  * A customer's radiation thermometer. The spectral band is either rectangular
- * (bandLambda1Um–bandLambda2Um, µm) or a stored tabulated responsivity (spectralResponseId).
+ * (bandLambda1Um–bandLambda2Um, µm) or a stored tabulated responsivity (spectralResponseId); a ratio
+ * pyrometer has a second band the same way (band2…) and its emissivity-ratio setting.
  * Temperatures in kelvin. `serial`, `assetTag`, `maker` and `model` compare without regard to
  * ASCII case (COLLATE NOCASE, migration 0002), so prefix search and sorting use their indexes.
  * Archived, never deleted.
@@ -23,6 +24,12 @@ export class Instrument extends Model<InferAttributes<Instrument>, InferCreation
   declare bandLambda1Um: number | null
   declare bandLambda2Um: number | null
   declare spectralResponseId: number | null
+  /** A ratio pyrometer's second band: rectangular (µm) or a stored table (migration 0014); null for other kinds. */
+  declare band2Lambda1Um: CreationOptional<number | null>
+  declare band2Lambda2Um: CreationOptional<number | null>
+  declare band2SpectralResponseId: CreationOptional<number | null>
+  /** A ratio pyrometer's emissivity-ratio ("slope") setting k (migration 0014). */
+  declare emissivityRatioSetting: CreationOptional<number | null>
   /** Distance-to-spot ratio D:S. */
   declare distanceToSpot: number | null
   declare rangeMinK: number
@@ -55,6 +62,10 @@ Instrument.init(
     bandLambda1Um: { type: DataTypes.DOUBLE, allowNull: true },
     bandLambda2Um: { type: DataTypes.DOUBLE, allowNull: true },
     spectralResponseId: { type: DataTypes.INTEGER, allowNull: true },
+    band2Lambda1Um: { type: DataTypes.DOUBLE, allowNull: true },
+    band2Lambda2Um: { type: DataTypes.DOUBLE, allowNull: true },
+    band2SpectralResponseId: { type: DataTypes.INTEGER, allowNull: true },
+    emissivityRatioSetting: { type: DataTypes.DOUBLE, allowNull: true },
     distanceToSpot: { type: DataTypes.DOUBLE, allowNull: true },
     rangeMinK: { type: DataTypes.DOUBLE, allowNull: false },
     rangeMaxK: { type: DataTypes.DOUBLE, allowNull: false },

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from 'sequelize'
 import type { PointStage } from '#shared/calibration/constants'
+import type { RoiFramesInput, RoiInput } from '#shared/schemas/run'
 import type { PointMonteCarloDTO, PointResult } from '#shared/types/runs'
 import { sequelize } from '#server/utils/db'
 
@@ -20,6 +21,10 @@ export class RunPoint extends Model<InferAttributes<RunPoint>, InferCreationAttr
   declare sourceIndicatedK: number | null
   declare referenceReadingK: number | null
   declare readingsK: number[]
+  /** A thermal imager's regions of interest with their readings (migration 0014); null for other kinds. */
+  declare rois: CreationOptional<RoiInput[] | null>
+  /** A thermal imager's frame series on the uniform source, for the NETD (migration 0014). */
+  declare netdFrames: CreationOptional<RoiFramesInput[] | null>
   declare referenceTemperatureK: number
   declare expectedReadingK: number
   declare errorK: number
@@ -49,6 +54,8 @@ RunPoint.init(
     sourceIndicatedK: { type: DataTypes.DOUBLE, allowNull: true },
     referenceReadingK: { type: DataTypes.DOUBLE, allowNull: true },
     readingsK: { type: DataTypes.JSON, allowNull: false },
+    rois: { type: DataTypes.JSON, allowNull: true },
+    netdFrames: { type: DataTypes.JSON, allowNull: true },
     referenceTemperatureK: { type: DataTypes.DOUBLE, allowNull: false },
     expectedReadingK: { type: DataTypes.DOUBLE, allowNull: false },
     errorK: { type: DataTypes.DOUBLE, allowNull: false },

@@ -25,8 +25,12 @@ export function quotedColumn(alias: string, column: string): string {
   return `${qi.quoteIdentifier(alias)}.${qi.quoteIdentifier(column)}`
 }
 
-/** `column LIKE pattern`, case-insensitive on both engines (see the module's note). */
-function likeCondition(column: string, pattern: string): string {
+/**
+ * `column LIKE pattern ESCAPE '\'`, case-insensitive on both engines (see the module's note).
+ * @param column - a quoted column from the code ({@link quotedColumn}), never from input
+ * @param pattern - a placeholder from {@link ListFilter.param}
+ */
+export function likeCondition(column: string, pattern: string): string {
   return sequelize.getDialect() === 'postgres'
     ? `lower(${column}) LIKE lower(${pattern}) ESCAPE '\\'`
     : `${column} LIKE ${pattern} ESCAPE '\\'`

@@ -36,17 +36,30 @@
  * 7. Conformity with the instrument's accuracy specification at the mean reading under the decision
  *    rule (ILAC-G8:09/2019), with U_stated, and the probability of conformity for a normal PDF with
  *    u = U_stated/k (JCGM 106:2012, 7.4): k of the budget, or 2 when the CMC (stated at k = 2) is stated.
+ *
+ * Kinds of instrument (engine 1.3.0):
+ * - A ratio (two-colour) pyrometer's point (`inputs.ratio`) takes its expected reading and sensitivities
+ *   from the two-colour model of shared/radiometry/ratio.ts (domain notes §7): S_i = ε_i·L_i(T_s) +
+ *   (1 − ε_i)·L_i(T_w) in bands 1 and 2, L_1(T_R)/L_2(T_R) = (S_1/S_2)/k. Lines on `sourceEmissivity` act on
+ *   ε_1, on `sourceEmissivity2` on ε_2, on `emissivityRatioSetting` on k; the instrument temperature and the
+ *   emissivity setting do not enter the model (c = 0). Its reference must be a source temperature (cavity or
+ *   surface) or a reference thermometer: a radiance temperature belongs to one band and is refused.
+ * - A thermal imager's point (`inputs.imager`) is computed on its centre region of interest (the point's
+ *   readings are the centre ROI's), and adds the ROI statistics, the non-uniformity over the ROIs and, with a
+ *   frame series, the NETD (shared/calibration/imager.ts).
  */
 import { ENGINE_VERSION } from '../engine'
 import { EngineInputError } from '../radiometry/errors'
 import { prepareBand, type Band, type PreparedBand } from '../radiometry/planck'
 import { expectedReadingFromRadianceTemperature } from '../radiometry/radianceTemperature'
+import { expectedRatioReading } from '../radiometry/ratio'
 import { readingSensitivities, type ReadingSensitivities } from '../radiometry/reading'
+import { imagerNetd, imagerPointStatistics } from './imager'
 import { correctionAt, CorrectionRangeError } from '../registers/correction'
 import { evaluateBudget, roundResult, validateCorrelations, type BudgetCorrelation } from '../uncertainty/budget'
 import { evaluateConformity } from '../uncertainty/conformity'
-import type { BudgetLine, CmcEntry, PointComputationInput, PointResult, ReferenceBasis, ReferenceBasisInput, TemplateComponent } from '../types/runs'
-import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, RADIANCE_BASIS_INPUTS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
+import type { BudgetLine, CmcEntry, ImagerPointResult, PointComputationInput, PointResult, ReferenceBasis, ReferenceBasisInput, TemplateComponent } from '../types/runs'
+import { COVERAGE_PROBABILITY, EMISSIVITY_INPUTS, MAX_READINGS, RADIANCE_BASIS_INPUTS, RATIO_INPUTS, UNITS_FOR_EMISSIVITY, UNITS_FOR_TEMPERATURE, type ModelInput } from './constants'
 
 /** Name of the Type A line added from the readings. */
 export const REPEATABILITY_NAME = 'Repeatability of the readings (s/√n)'
@@ -141,13 +154,22 @@ export function cmcAt(cmc: readonly CmcEntry[], temperatureK: number): number | 
   return best
 }
 
-/** Sensitivity coefficients of a point: those of the reading model, and for a radiance basis those of T_rad and T_w0. */
-type PointSensitivities = ReadingSensitivities & { radianceTemperature: number | null, certificationReflectedTemperature: number | null }
+/**
+ * Sensitivity coefficients of a point: those of the reading model (or the ratio model), for a radiance basis
+ * those of T_rad and T_w0, for a ratio pyrometer those of ε_2 and k.
+ */
+type PointSensitivities = ReadingSensitivities & {
+  radianceTemperature: number | null
+  certificationReflectedTemperature: number | null
+  sourceEmissivity2: number | null
+  emissivityRatioSetting: number | null
+}
 
 function sensitivityFor(input: ModelInput, s: PointSensitivities, field: string): number {
   if (input === 'reading') return 1
   const c = s[input]
   if (c === null) {
+    if (RATIO_INPUTS.includes(input)) throw new EngineInputError(field, `a line on ${input} belongs to a ratio (two-colour) pyrometer; this point's instrument is not one`)
     throw new EngineInputError(field, `a line on ${input} needs a source whose certified value is a radiance temperature; this point's reference is not one`)
   }
   return c
@@ -172,7 +194,9 @@ function templateCorrelations(correlations: PointComputationInput['correlations'
 function pointField(field: string, reference: PointComputationInput['reference']): string {
   if (field === 'sourceTemperatureK' || field === 'radianceTemperatureK') return reference.kind === 'source-correction' ? 'sourceIndicatedK' : 'referenceReadingK'
   if (field.startsWith('radianceTemperatureBand') || field === 'certificationReflectedTemperatureK') return 'sourceId'
+  if (field.startsWith('band2')) return 'instrument.band2'
   if (field.startsWith('band')) return 'instrument.band'
+  if (field === 'sourceEmissivity1' || field === 'sourceEmissivity2') return 'sourceId'
   return field
 }
 
@@ -199,6 +223,7 @@ function basisOf(reference: PointComputationInput['reference']): { basis: Refere
  * @returns T_s (K), the sensitivities (K per input unit; T_rad and T_w0 null unless a radiance basis)
  */
 function modelAtPoint(input: PointComputationInput, band: Band | PreparedBand, referenceK: number, basis: ReferenceBasisInput | null): { sourceTemperatureK: number, sens: PointSensitivities } {
+  if (input.ratio) return ratioAtPoint(input, band, referenceK, basis)
   const common = {
     band,
     sourceEmissivity: input.sourceEmissivity,
@@ -208,7 +233,7 @@ function modelAtPoint(input: PointComputationInput, band: Band | PreparedBand, r
   }
   if (basis?.kind !== 'radiance-temperature') {
     const s = asPoint(() => readingSensitivities({ ...common, sourceTemperatureK: referenceK }), input.reference)
-    return { sourceTemperatureK: referenceK, sens: { ...s, radianceTemperature: null, certificationReflectedTemperature: null } }
+    return { sourceTemperatureK: referenceK, sens: { ...s, radianceTemperature: null, certificationReflectedTemperature: null, sourceEmissivity2: null, emissivityRatioSetting: null } }
   }
   if (!(typeof basis.reflectedTemperatureK === 'number' && Number.isFinite(basis.reflectedTemperatureK) && basis.reflectedTemperatureK > 0)) {
     throw new EngineInputError('sourceId', 'the source’s radiance temperature needs the temperature of the surroundings when it was certified (T_w0)')
@@ -233,7 +258,83 @@ function modelAtPoint(input: PointComputationInput, band: Band | PreparedBand, r
       emissivitySetting: r.sensitivities.emissivitySetting,
       radianceTemperature: r.sensitivities.radianceTemperature,
       certificationReflectedTemperature: r.sensitivities.certificationReflectedTemperature,
+      sourceEmissivity2: null,
+      emissivityRatioSetting: null,
     },
+  }
+}
+
+/**
+ * A ratio pyrometer's expected reading and sensitivities (two-colour model, shared/radiometry/ratio.ts) at the
+ * source temperature T_s = the reference temperature (a cavity or surface temperature, or a thermometer's reading).
+ */
+function ratioAtPoint(input: PointComputationInput, band: Band | PreparedBand, referenceK: number, basis: ReferenceBasisInput | null): { sourceTemperatureK: number, sens: PointSensitivities } {
+  const ratio = input.ratio!
+  if (basis?.kind === 'radiance-temperature') {
+    throw new EngineInputError('sourceId', 'a ratio pyrometer’s point needs the source’s temperature (a cavity or surface temperature) or a reference thermometer: a radiance temperature belongs to one band and says nothing about the other')
+  }
+  const band2 = ratio.band2.kind === 'tabulated' ? prepareBand(ratio.band2 as Band) : (ratio.band2 as Band)
+  const r = asPoint(() => expectedRatioReading({
+    band1: band,
+    band2,
+    sourceTemperatureK: referenceK,
+    sourceEmissivity1: input.sourceEmissivity,
+    sourceEmissivity2: ratio.sourceEmissivity2,
+    reflectedTemperatureK: input.reflectedTemperatureK,
+    emissivityRatioSetting: ratio.emissivityRatioSetting,
+  }), input.reference)
+  const s = r.sensitivities
+  return {
+    sourceTemperatureK: referenceK,
+    sens: {
+      expectedReadingK: r.expectedReadingK,
+      sourceTemperature: s.sourceTemperature,
+      sourceEmissivity: s.sourceEmissivity1,
+      reflectedTemperature: s.reflectedTemperature,
+      // neither enters the two-colour model
+      instrumentTemperature: 0,
+      emissivitySetting: 0,
+      radianceTemperature: null,
+      certificationReflectedTemperature: null,
+      sourceEmissivity2: s.sourceEmissivity2,
+      emissivityRatioSetting: s.emissivityRatioSetting,
+    },
+  }
+}
+
+/** The NETD's refusals (shared/calibration/imager.ts names `rois…`) named as the point's frame series (`netdFrames…`). */
+function asFrames<T>(fn: () => T): T {
+  try {
+    return fn()
+  }
+  catch (err) {
+    if (err instanceof EngineInputError) {
+      throw new EngineInputError(err.field.replace(/^rois/, 'netdFrames'), err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message)
+    }
+    throw err
+  }
+}
+
+/**
+ * A thermal imager's point statistics: per ROI, the centre's error, the non-uniformity and the NETD
+ * (shared/calibration/imager.ts), with each ROI's position and size.
+ * @throws EngineInputError naming `rois…` or `netdFrames…` (also when the centre ROI's readings are not the point's)
+ */
+function imagerAt(imager: NonNullable<PointComputationInput['imager']>, readingsK: readonly number[], expectedK: number): ImagerPointResult {
+  if (!Array.isArray(imager.rois)) throw new EngineInputError('rois', 'a thermal imager’s point needs its regions of interest')
+  const centre = imager.rois.find(r => r && r.name === imager.centreRoi)
+  if (!centre) throw new EngineInputError('rois', `no region of interest is named '${String(imager.centreRoi)}'`)
+  if (!Array.isArray(centre.readingsK) || centre.readingsK.length !== readingsK.length || centre.readingsK.some((r, i) => r !== readingsK[i])) {
+    throw new EngineInputError('rois', `the point's readings must be those of its '${imager.centreRoi}' region of interest`)
+  }
+  const stats = imagerPointStatistics({ expectedReadingK: expectedK, rois: imager.rois.map(r => ({ name: r.name, readingsK: r.readingsK })), centreRoi: imager.centreRoi })
+  const netd = imager.netdFrames?.length ? asFrames(() => imagerNetd({ rois: imager.netdFrames!.map(f => ({ name: f.name, framesK: f.framesK })) })) : null
+  return {
+    rois: stats.rois.map((r, i) => ({ ...r, xPx: imager.rois[i]!.xPx, yPx: imager.rois[i]!.yPx, widthPx: imager.rois[i]!.widthPx, heightPx: imager.rois[i]!.heightPx })),
+    centreRoi: imager.centreRoi,
+    centreErrorK: stats.centre.errorK,
+    uniformity: stats.uniformity,
+    netd,
   }
 }
 
@@ -272,6 +373,7 @@ export function computePoint(input: PointComputationInput): PointResult {
   const mean = readings.reduce((a, b) => a + b, 0) / n
   const stdDev = n > 1 ? Math.sqrt(readings.reduce((a, r) => a + (r - mean) ** 2, 0) / (n - 1)) : 0
   const error = mean - expected
+  const imager = input.imager ? imagerAt(input.imager, readings, expected) : undefined
 
   const valueOf: Record<ModelInput, number> = {
     sourceTemperature: sourceTemperatureK,
@@ -282,10 +384,15 @@ export function computePoint(input: PointComputationInput): PointResult {
     instrumentTemperature: input.instrumentTemperatureK,
     emissivitySetting: input.emissivitySetting,
     reading: mean,
+    sourceEmissivity2: input.ratio ? input.ratio.sourceEmissivity2 : Number.NaN,
+    emissivityRatioSetting: input.ratio ? input.ratio.emissivityRatioSetting : Number.NaN,
   }
   const line = (c: TemplateComponent, i: number, list: 'template' | 'equipmentLines', origin: string | undefined): Omit<BudgetLine, 'contributionK' | 'percent'> => {
     if (RADIANCE_BASIS_INPUTS.includes(c.input) && basis !== 'radiance-temperature') {
       throw new EngineInputError(`${list}[${i}].input`, `a line on ${c.input} needs a source whose certified value is a radiance temperature; this point's reference is a ${basis.replace('-', ' ')}`)
+    }
+    if (RATIO_INPUTS.includes(c.input) && !input.ratio) {
+      throw new EngineInputError(`${list}[${i}].input`, `a line on ${c.input} belongs to a ratio (two-colour) pyrometer; this point's instrument is not one`)
     }
     return {
       name: c.name,
@@ -306,6 +413,9 @@ export function computePoint(input: PointComputationInput): PointResult {
   if (!Array.isArray(equipment)) throw new EngineInputError('equipmentLines', 'must be a list of budget lines')
   equipment.forEach((c, i) => lines.push(line(c, i, 'equipmentLines', c.origin)))
   const notes: string[] = [...(Array.isArray(input.setupNotes) ? input.setupNotes.filter(x => typeof x === 'string') : [])]
+  if (input.ratio) {
+    notes.push(`Ratio (two-colour) model: source emissivity ε_1 = ${Number(input.sourceEmissivity.toPrecision(6))} in band 1 and ε_2 = ${Number(input.ratio.sourceEmissivity2.toPrecision(6))} in band 2, emissivity-ratio setting k = ${Number(input.ratio.emissivityRatioSetting.toPrecision(6))}; the instrument temperature and the emissivity setting do not enter it (sensitivity 0).`)
+  }
   if (n >= 2) {
     const u = stdDev / Math.sqrt(n)
     lines.push({ name: REPEATABILITY_NAME, type: 'A', input: 'reading', distribution: 'standard', value: u, unit: 'K', standardUncertainty: u, sensitivity: 1, dof: n - 1, origin: `${READINGS_ORIGIN} (n = ${n})` })
@@ -375,5 +485,6 @@ export function computePoint(input: PointComputationInput): PointResult {
     },
     engineVersion: ENGINE_VERSION,
     inputs: input,
+    ...(imager ? { imager } : {}),
   }
 }

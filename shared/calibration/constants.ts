@@ -66,10 +66,16 @@ export const COMPONENT_UNIT_LABELS: Record<ComponentUnit, string> = {
  * certified) exist only for a source whose certified value is a radiance temperature; there
  * `sourceTemperature` is the surface temperature T_s found from T_rad.
  */
-export const MODEL_INPUTS = ['sourceTemperature', 'radianceTemperature', 'certificationReflectedTemperature', 'sourceEmissivity', 'reflectedTemperature', 'instrumentTemperature', 'emissivitySetting', 'reading'] as const
+export const MODEL_INPUTS = ['sourceTemperature', 'radianceTemperature', 'certificationReflectedTemperature', 'sourceEmissivity', 'reflectedTemperature', 'instrumentTemperature', 'emissivitySetting', 'reading', 'sourceEmissivity2', 'emissivityRatioSetting'] as const
 export type ModelInput = (typeof MODEL_INPUTS)[number]
 /** Inputs that only a radiance-temperature basis has. */
 export const RADIANCE_BASIS_INPUTS: readonly ModelInput[] = ['radianceTemperature', 'certificationReflectedTemperature']
+/**
+ * Inputs that only a ratio (two-colour) pyrometer has: the source emissivity in its band 2 (`sourceEmissivity`
+ * is then band 1's) and its emissivity-ratio setting k. In the ratio model the instrument temperature and
+ * the emissivity setting do not enter: their sensitivity coefficients are 0 there.
+ */
+export const RATIO_INPUTS: readonly ModelInput[] = ['sourceEmissivity2', 'emissivityRatioSetting']
 export const MODEL_INPUT_LABELS: Record<ModelInput, string> = {
   sourceTemperature: 'Source temperature T_s',
   radianceTemperature: 'Certified radiance temperature T_rad',
@@ -79,10 +85,12 @@ export const MODEL_INPUT_LABELS: Record<ModelInput, string> = {
   instrumentTemperature: 'Instrument temperature T_d',
   emissivitySetting: 'Emissivity setting ε_i',
   reading: 'Reading',
+  sourceEmissivity2: 'Source emissivity in band 2 ε_2 (ratio pyrometer)',
+  emissivityRatioSetting: 'Emissivity-ratio setting k (ratio pyrometer)',
 }
 
 /** Inputs whose unit is an emissivity (the others are temperatures, kelvin). */
-export const EMISSIVITY_INPUTS: readonly ModelInput[] = ['sourceEmissivity', 'emissivitySetting']
+export const EMISSIVITY_INPUTS: readonly ModelInput[] = ['sourceEmissivity', 'emissivitySetting', 'sourceEmissivity2', 'emissivityRatioSetting']
 /** Units allowed for each kind of input. */
 export const UNITS_FOR_TEMPERATURE: readonly ComponentUnit[] = ['K', 'mK']
 export const UNITS_FOR_EMISSIVITY: readonly ComponentUnit[] = ['emissivity', 'percent-of-emissivity']
@@ -118,6 +126,36 @@ export const CONDITION_LABELS: Record<ConditionField, string> = {
 }
 /** The conditions a point cannot be computed without (the reading model's inputs). */
 export const COMPUTATION_CONDITIONS: readonly ConditionField[] = ['reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting']
+
+/**
+ * The measured conditions of a run of an instrument of a given kind (issue 16): a ratio pyrometer's run
+ * records its emissivity-ratio setting instead of the emissivity setting, and the instrument's own
+ * temperature does not enter its model (it may still be entered). Labels of every one: {@link RUN_CONDITION_LABELS}.
+ */
+export type RunConditionField = ConditionField | 'emissivityRatioSetting'
+export const RUN_CONDITION_LABELS: Record<RunConditionField, string> = { ...CONDITION_LABELS, emissivityRatioSetting: 'Emissivity-ratio (slope) setting' }
+const RATIO_CONDITIONS: readonly RunConditionField[] = ['ambientTemperatureK', 'relativeHumidityPct', 'distanceMm', 'reflectedTemperatureK', 'emissivityRatioSetting']
+const RATIO_COMPUTATION: readonly RunConditionField[] = ['reflectedTemperatureK', 'emissivityRatioSetting']
+
+/**
+ * The conditions a run of this kind of instrument must have entered before it is submitted or certified.
+ * @param ratio - true for a ratio (two-colour) pyrometer
+ * @returns field names of the run header
+ * @example conditionFieldsFor(true) → [… 'reflectedTemperatureK', 'emissivityRatioSetting']
+ */
+export function conditionFieldsFor(ratio: boolean): readonly RunConditionField[] {
+  return ratio ? RATIO_CONDITIONS : CONDITION_FIELDS
+}
+
+/**
+ * The conditions a point of this kind cannot be computed without (the model's inputs).
+ * @param ratio - true for a ratio (two-colour) pyrometer
+ * @returns field names of the run header
+ * @example computationConditionsFor(false) → ['reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting']
+ */
+export function computationConditionsFor(ratio: boolean): readonly RunConditionField[] {
+  return ratio ? RATIO_COMPUTATION : COMPUTATION_CONDITIONS
+}
 
 /** As found (before any adjustment) and as left (after it); a run without adjustment has only as-found points. */
 export const POINT_STAGES = ['as-found', 'as-left'] as const

@@ -28,11 +28,15 @@
  *   (T_rad, ε_s, T_w0, T_w, T_d, ε_i): ε_s is sampled once and enters both steps. Lines that move the
  *   surface temperature T_s itself are then added to the output to first order (c = ∂T_meas/∂T_s), as
  *   the notes say. {@link planReadingModel} gives the model for either plan.
+ * - A ratio pyrometer's point runs the two-colour model of shared/radiometry/ratio.ts over
+ *   {@link MC_RATIO_MODEL_INPUTS} (T_s, ε_1, ε_2, T_w, k); lines on the instrument temperature or the
+ *   emissivity setting, which do not enter that model (c = 0), are left out, as the notes say.
  */
 import type { RadiationConstantsId } from '../radiometry/constants'
 import type { Band } from '../radiometry/planck'
 import { INVERSION_RANGE_K } from '../radiometry/inversion'
 import { radianceTemperatureReadingModel } from '../radiometry/radianceTemperature'
+import { ratioReadingModel } from '../radiometry/ratio'
 import { readingModel } from '../radiometry/reading'
 import type { MonteCarloCorrelation, MonteCarloInput } from '../uncertainty/montecarlo'
 import type { BandInput, BudgetLine, CertifiedBandInput, PointResult } from '../types/runs'
@@ -50,6 +54,20 @@ const LINE_INPUT: Record<string, McModelInput | null> = {
   reflectedTemperature: 'reflectedTemperatureK',
   instrumentTemperature: 'instrumentTemperatureK',
   emissivitySetting: 'emissivitySetting',
+  reading: null,
+}
+/** Inputs of the ratio (two-colour) model x = [T_s, ε_1, ε_2, T_w, k] (shared/radiometry/ratio.ts ratioReadingModel). */
+export const MC_RATIO_MODEL_INPUTS = ['sourceTemperatureK', 'sourceEmissivity', 'sourceEmissivity2', 'reflectedTemperatureK', 'emissivityRatioSetting'] as const
+export type McRatioModelInput = (typeof MC_RATIO_MODEL_INPUTS)[number]
+const RATIO_LINE_INPUT: Record<string, McRatioModelInput | null> = {
+  sourceTemperature: 'sourceTemperatureK',
+  sourceEmissivity: 'sourceEmissivity',
+  sourceEmissivity2: 'sourceEmissivity2',
+  reflectedTemperature: 'reflectedTemperatureK',
+  emissivityRatioSetting: 'emissivityRatioSetting',
+  // no part of the two-colour model (c = 0): added to the output with that sensitivity
+  instrumentTemperature: null,
+  emissivitySetting: null,
   reading: null,
 }
 const RADIANCE_LINE_INPUT: Record<string, McRadianceModelInput | null> = {
@@ -70,6 +88,7 @@ const RADIANCE_LINE_INPUT: Record<string, McRadianceModelInput | null> = {
 export type McModelSpec =
   | { kind: 'reading', band: BandInput, constants?: RadiationConstantsId }
   | { kind: 'radiance-temperature', band: BandInput, radianceTemperatureBand: CertifiedBandInput, constants?: RadiationConstantsId }
+  | { kind: 'ratio', band: BandInput, band2: BandInput, constants?: RadiationConstantsId }
 
 export interface MonteCarloPlan {
   /** The model the inputs run through. */
@@ -124,10 +143,15 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
   const i = result.inputs
   const basis = i.reference.kind === 'source-correction' ? i.reference.basis : undefined
   const radiance = basis?.kind === 'radiance-temperature' ? basis : null
-  const model: McModelSpec = radiance ? { kind: 'radiance-temperature', band: i.band, radianceTemperatureBand: radiance.band } : { kind: 'reading', band: i.band }
-  const names: readonly string[] = radiance ? MC_RADIANCE_MODEL_INPUTS : MC_MODEL_INPUTS
-  const lineInput: Record<string, string | null> = radiance ? RADIANCE_LINE_INPUT : LINE_INPUT
+  const ratio = i.ratio ?? null
+  const model: McModelSpec = ratio
+    ? { kind: 'ratio', band: i.band, band2: ratio.band2 }
+    : radiance ? { kind: 'radiance-temperature', band: i.band, radianceTemperatureBand: radiance.band } : { kind: 'reading', band: i.band }
+  const names: readonly string[] = ratio ? MC_RATIO_MODEL_INPUTS : radiance ? MC_RADIANCE_MODEL_INPUTS : MC_MODEL_INPUTS
+  const lineInput: Record<string, string | null> = ratio ? RATIO_LINE_INPUT : radiance ? RADIANCE_LINE_INPUT : LINE_INPUT
   const at: Record<string, number> = {
+    sourceEmissivity2: ratio ? ratio.sourceEmissivity2 : Number.NaN,
+    emissivityRatioSetting: ratio ? ratio.emissivityRatioSetting : Number.NaN,
     sourceTemperatureK: result.referenceTemperatureK,
     radianceTemperatureK: result.referenceTemperatureK,
     certificationReflectedTemperatureK: radiance ? radiance.reflectedTemperatureK : Number.NaN,
@@ -158,6 +182,11 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
   }
   lines.forEach((l, i) => {
     if (lineInput[l.input] !== null || !(l.standardUncertainty > 0)) return
+    if (ratio && l.input !== 'reading') {
+      // the instrument temperature and the emissivity setting are no inputs of the two-colour model (c = 0)
+      notes.push(`${l.name}: no input of the two-colour model (c = 0); left out`)
+      return
+    }
     slotOf.set(i, { slot: m + outputTerms.length, sign: l.input === 'reading' ? 1 : Math.sign(l.sensitivity) || 1 })
     outputTerms.push(lineDistribution(l, 0, l.input === 'reading' ? 1 : Math.abs(l.sensitivity)))
     if (l.input !== 'reading') notes.push(`${l.name}: moves the surface temperature found from the radiance temperature; added to the reading to first order (c = ${Number(l.sensitivity.toPrecision(4))})`)
@@ -224,6 +253,7 @@ export function planModel(reading: (x: ArrayLike<number>) => number, modelInputs
  * @example runMonteCarlo(planReadingModel(plan.model), monteCarloPlanInputs(plan).inputs, { correlations: plan.correlations })
  */
 export function planReadingModel(spec: McModelSpec): (x: Float64Array) => number {
+  if (spec.kind === 'ratio') return planModel(ratioReadingModel(spec.band as Band, spec.band2 as Band, spec.constants), MC_RATIO_MODEL_INPUTS.length)
   if (spec.kind === 'radiance-temperature') {
     return planModel(radianceTemperatureReadingModel(spec.radianceTemperatureBand as Band, spec.band as Band, spec.constants), MC_RADIANCE_MODEL_INPUTS.length)
   }

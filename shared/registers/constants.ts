@@ -56,6 +56,22 @@ export type EquipmentType = (typeof EQUIPMENT_TYPES)[number]
 export const INSTRUMENT_KINDS = ['spot-infrared', 'fixed-pyrometer', 'fibre-optic-pyrometer', 'ratio-pyrometer', 'thermal-imager'] as const
 export type InstrumentKind = (typeof INSTRUMENT_KINDS)[number]
 
+/**
+ * What each kind of instrument is computed with (issue 16): a ratio (two-colour) pyrometer has two bands
+ * and an emissivity-ratio ("slope") setting and is computed with the two-colour model
+ * (shared/radiometry/ratio.ts); a thermal imager records readings in regions of interest (shared/calibration/imager.ts);
+ * the spot and reference pyrometers may state a calibration equation through their as-left points
+ * (shared/radiometry/calibrationEquation.ts). The others are single-band spot instruments.
+ */
+export const RATIO_KINDS: readonly InstrumentKind[] = ['ratio-pyrometer']
+export const IMAGER_KINDS: readonly InstrumentKind[] = ['thermal-imager']
+/** Kinds whose certificate may carry a calibration equation (a Sakuma–Hattori fit through the as-left points). */
+export const EQUATION_KINDS: readonly InstrumentKind[] = ['spot-infrared', 'fixed-pyrometer', 'fibre-optic-pyrometer']
+/** True for a ratio (two-colour) pyrometer. */
+export const isRatioKind = (kind: string): boolean => (RATIO_KINDS as readonly string[]).includes(kind)
+/** True for a thermal imager. */
+export const isImagerKind = (kind: string): boolean => (IMAGER_KINDS as readonly string[]).includes(kind)
+
 export const INSTRUMENT_STATUSES = ['active', 'out-of-service', 'retired'] as const
 export type InstrumentStatus = (typeof INSTRUMENT_STATUSES)[number]
 

@@ -231,3 +231,47 @@ export const conformitySchema = z.object({
 })
 
 export type ConformityCalcInput = z.infer<typeof conformitySchema>
+/**
+ * POST /api/calculations/ratio-reading: a ratio (two-colour) pyrometer's expected reading (domain notes §7;
+ * shared/radiometry/ratio.ts): band 1 (shorter wavelengths) and band 2, the source's temperature and its
+ * emissivity in each band, the surroundings' temperature and the instrument's emissivity-ratio setting k.
+ */
+export const ratioReadingSchema = z.object({
+  band1: bandSchema,
+  band2: bandSchema,
+  sourceTemperatureK: kelvin('The source temperature'),
+  sourceEmissivity1: emissivity('The source emissivity in band 1'),
+  sourceEmissivity2: emissivity('The source emissivity in band 2'),
+  reflectedTemperatureK: kelvin('The reflected temperature'),
+  emissivityRatioSetting: positive('The emissivity-ratio setting').max(100, 'The emissivity-ratio setting is at most 100'),
+  constants: constantsSchema,
+})
+export type RatioReadingRequest = z.infer<typeof ratioReadingSchema>
+
+/** One calibration point of the calibration-equation calculation (T, R, U with its k). */
+export const equationPointSchema = z.object({
+  referenceTemperatureK: kelvin('The reference temperature'),
+  readingK: kelvin('The reading'),
+  expandedUncertaintyK: positive('The expanded uncertainty').max(1000, 'The expanded uncertainty is at most 1000 K'),
+  coverageFactor: positive('The coverage factor').max(100, 'The coverage factor is at most 100'),
+}, { error: 'Each point is { referenceTemperatureK, readingK, expandedUncertaintyK, coverageFactor }' })
+
+/**
+ * POST /api/calculations/calibration-equation: a calibration equation through calibration points
+ * (shared/radiometry/calibrationEquation.ts) — the Sakuma–Hattori form (needs the instrument's nominal
+ * band) or a straight line — with a common correlation r between the points, and the interpolated values
+ * at reference temperatures (`temperaturesK`) and at readings (`readingsK`), each inside the points' range.
+ */
+export const calibrationEquationSchema = z.object({
+  points: z.array(equationPointSchema, { error: 'points is a list of { referenceTemperatureK, readingK, expandedUncertaintyK, coverageFactor }' }).min(2, 'Give at least two points (three for the Sakuma–Hattori form)').max(100, 'At most 100 points'),
+  model: z.enum(['sakuma-hattori', 'linear'], { error: 'model is "sakuma-hattori" or "linear"' }).default('sakuma-hattori'),
+  band: bandSchema.optional(),
+  pointCorrelation: num('pointCorrelation').min(0, 'pointCorrelation is from 0 to below 1').lt(1, 'pointCorrelation is below 1').default(0),
+  temperaturesK: z.array(kelvin('Each temperature'), { error: 'temperaturesK is a list of temperatures in K' }).max(200, 'At most 200 temperatures').default([]),
+  readingsK: z.array(kelvin('Each reading'), { error: 'readingsK is a list of readings in K' }).max(200, 'At most 200 readings').default([]),
+  coverageFactor: positive('coverageFactor').max(100, 'coverageFactor is at most 100').default(2),
+  constants: constantsSchema,
+}).superRefine((v, ctx) => {
+  if (v.model === 'sakuma-hattori' && !v.band) ctx.addIssue({ code: 'custom', path: ['band'], message: 'The Sakuma–Hattori form needs the instrument’s nominal band' })
+})
+export type CalibrationEquationRequest = z.infer<typeof calibrationEquationSchema>

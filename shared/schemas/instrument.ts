@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { INSTRUMENT_KINDS, INSTRUMENT_STATUSES } from '../registers/constants'
+import { INSTRUMENT_KINDS, INSTRUMENT_STATUSES, isRatioKind } from '../registers/constants'
 import { text, versionSchema } from './common'
 import { dateOnlySchema, numberField, optionalText } from './registerQuery'
 
@@ -37,6 +37,13 @@ const instrumentFields = z.object({
   bandLambda2Um: micrometres('Band end').nullable(),
   /** … or a stored tabulated responsivity. */
   spectralResponseId: ref('The responsivity table'),
+  /** A ratio pyrometer's second (long-wavelength) band: a rectangular λ1–λ2 in µm … */
+  band2Lambda1Um: micrometres('Band 2 start').nullable(),
+  band2Lambda2Um: micrometres('Band 2 end').nullable(),
+  /** … or a stored tabulated responsivity. */
+  band2SpectralResponseId: ref('The responsivity table of band 2'),
+  /** A ratio pyrometer's emissivity-ratio ("slope") setting k, nominally ε₁/ε₂ (1 for a grey source). */
+  emissivityRatioSetting: numberField('Emissivity-ratio setting').positive('The emissivity-ratio setting is above 0').max(10, 'The emissivity-ratio setting is at most 10').nullable(),
   /** Distance-to-spot ratio D:S (12 for 12:1). */
   distanceToSpot: numberField('Distance-to-spot ratio').positive('Must be above 0').max(10000).nullable(),
   rangeMinK: kelvin('Range minimum'),
@@ -70,6 +77,37 @@ function instrumentRules(v: Partial<InstrumentShape>, ctx: z.RefinementCtx) {
   else if (table === null) {
     ctx.addIssue({ code: 'custom', path: ['bandLambda1Um'], message: 'Give the spectral band (λ1 and λ2) or a responsivity table' })
   }
+  ratioRules(v, ctx)
+}
+
+/**
+ * A ratio (two-colour) pyrometer has a second band (rectangular or a table, like the first) at longer
+ * wavelengths than the first, and its emissivity-ratio setting; no other kind has either.
+ */
+function ratioRules(v: Partial<InstrumentShape>, ctx: z.RefinementCtx) {
+  const m1 = v.band2Lambda1Um ?? null
+  const m2 = v.band2Lambda2Um ?? null
+  const table2 = v.band2SpectralResponseId ?? null
+  const k = v.emissivityRatioSetting ?? null
+  if (v.kind === undefined) return
+  if (!isRatioKind(v.kind)) {
+    if (m1 !== null || m2 !== null || table2 !== null) ctx.addIssue({ code: 'custom', path: [table2 !== null ? 'band2SpectralResponseId' : m1 !== null ? 'band2Lambda1Um' : 'band2Lambda2Um'], message: 'Only a ratio pyrometer has a second band' })
+    if (k !== null) ctx.addIssue({ code: 'custom', path: ['emissivityRatioSetting'], message: 'Only a ratio pyrometer has an emissivity-ratio setting' })
+    return
+  }
+  if ((m1 === null) !== (m2 === null)) {
+    ctx.addIssue({ code: 'custom', path: [m1 === null ? 'band2Lambda1Um' : 'band2Lambda2Um'], message: 'Give both ends of band 2' })
+  }
+  else if (m1 !== null && m2 !== null) {
+    if (!(m2 > m1)) ctx.addIssue({ code: 'custom', path: ['band2Lambda2Um'], message: 'The end of band 2 must be above its start' })
+    if (table2 !== null) ctx.addIssue({ code: 'custom', path: ['band2SpectralResponseId'], message: 'Give band 2 either as a rectangular band or as a responsivity table, not both' })
+    const l2 = v.bandLambda2Um ?? null
+    if (l2 !== null && m1 < l2) ctx.addIssue({ code: 'custom', path: ['band2Lambda1Um'], message: `Band 2 must lie at longer wavelengths than band 1 (band 1 ends at ${l2} µm)` })
+  }
+  else if (table2 === null) {
+    ctx.addIssue({ code: 'custom', path: ['band2Lambda1Um'], message: 'A ratio pyrometer needs its second band (λ1 and λ2) or a responsivity table for it' })
+  }
+  if (k === null) ctx.addIssue({ code: 'custom', path: ['emissivityRatioSetting'], message: 'Give the emissivity-ratio (slope) setting, 1 for a grey source' })
 }
 
 /** POST /api/instruments (also one CSV row of an import). */
@@ -80,6 +118,10 @@ export const instrumentCreateSchema = instrumentFields
     bandLambda2Um: instrumentFields.shape.bandLambda2Um.optional().default(null),
     spectralResponseId: instrumentFields.shape.spectralResponseId.optional().default(null),
     distanceToSpot: instrumentFields.shape.distanceToSpot.optional().default(null),
+    band2Lambda1Um: instrumentFields.shape.band2Lambda1Um.optional().default(null),
+    band2Lambda2Um: instrumentFields.shape.band2Lambda2Um.optional().default(null),
+    band2SpectralResponseId: instrumentFields.shape.band2SpectralResponseId.optional().default(null),
+    emissivityRatioSetting: instrumentFields.shape.emissivityRatioSetting.optional().default(null),
     status: instrumentFields.shape.status.default('active'),
     nextDueDate: instrumentFields.shape.nextDueDate.optional().default(null),
     photoUploadId: instrumentFields.shape.photoUploadId.optional().default(null),

@@ -18,6 +18,43 @@ export const reasonSchema = z.string({ error: 'The reason must be text' }).trim(
 /** A measured condition: a number when entered, null when not (yet); never a default. */
 const measured = <T extends z.ZodNumber>(n: T) => n.nullable()
 
+/** The name of the region of interest whose readings are a thermal imager's point readings. */
+export const CENTRE_ROI = 'centre'
+/** Most regions of interest per point, and most frames per ROI in a NETD series. */
+export const MAX_ROIS = 25
+export const MAX_NETD_FRAMES = 1000
+
+const pixels = (label: string, min: number) => z.number({ error: `${label} must be a number of pixels` }).int(`${label} is a whole number of pixels`).min(min, `${label} is at least ${min} px`).max(100_000, `${label} is at most 100000 px`)
+const roiName = z.string({ error: 'Name the region of interest' }).trim().min(1, 'Name the region of interest').max(40, 'At most 40 characters')
+
+/** A thermal imager's settings in the run: lens and field of view, range setting, non-uniformity correction (IEC TS 63144-1, VDI/VDE 5585 list them for a certificate). */
+export const imagerSettingsSchema = z.object({
+  lens: z.string({ error: 'Describe the lens' }).trim().min(1, 'Describe the lens (e.g. "standard 24° lens")').max(200, 'At most 200 characters'),
+  fieldOfView: z.string({ error: 'Give the field of view' }).trim().min(1, 'Give the field of view (e.g. "24° × 18°")').max(200, 'At most 200 characters'),
+  rangeSetting: z.string({ error: 'Give the range setting' }).trim().min(1, 'Give the range setting (e.g. "−20 °C to 150 °C")').max(200, 'At most 200 characters'),
+  nonUniformityCorrection: z.boolean({ error: 'Say whether a non-uniformity correction (NUC) was done (true or false)' }),
+}, { error: 'imagerSettings is { lens, fieldOfView, rangeSetting, nonUniformityCorrection }' })
+export type ImagerSettings = z.infer<typeof imagerSettingsSchema>
+
+/**
+ * The calibration equation a certificate states (spot and reference pyrometers): the reference
+ * temperatures of its table (K, strictly increasing, inside the calibrated range when the points are
+ * in) and the correlation coefficient between the points' errors (0: independent; a shared reference
+ * makes them correlated), r in [0, 1).
+ */
+export const calibrationEquationSettingsSchema = z.object({
+  temperaturesK: z.array(kelvin('Table temperature'), { error: 'temperaturesK is a list of temperatures in K' }).min(1, 'Give at least one temperature for the table').max(40, 'At most 40 temperatures'),
+  pointCorrelation: numberField('The correlation between the points').min(0, 'The correlation between the points is from 0 to below 1').lt(1, 'The correlation between the points is below 1').default(0),
+}, { error: 'calibrationEquation is { temperaturesK, pointCorrelation }' }).superRefine((v, ctx) => {
+  for (let i = 1; i < v.temperaturesK.length; i++) {
+    if (!(v.temperaturesK[i]! > v.temperaturesK[i - 1]!)) {
+      ctx.addIssue({ code: 'custom', path: ['temperaturesK', i], message: 'The table temperatures must increase' })
+      return
+    }
+  }
+})
+export type CalibrationEquationSettings = z.infer<typeof calibrationEquationSettingsSchema>
+
 const headerFields = z.object({
   calibrationDate: dateOnlySchema,
   ambientTemperatureK: measured(kelvin('Ambient temperature').min(200, 'An ambient temperature below 200 K (−73.15 °C) is not a laboratory').max(350, 'An ambient temperature above 350 K (76.85 °C) is not a laboratory')),
@@ -28,6 +65,12 @@ const headerFields = z.object({
   emissivitySetting: measured(emissivity('The emissivity setting')),
   reflectedTemperatureK: measured(kelvin('Reflected temperature')),
   instrumentTemperatureK: measured(kelvin('Instrument temperature')),
+  /** A ratio pyrometer's emissivity-ratio ("slope") setting k during the run. */
+  emissivityRatioSetting: measured(numberField('The emissivity-ratio setting').positive('The emissivity-ratio setting is above 0').max(10, 'The emissivity-ratio setting is at most 10')),
+  /** A thermal imager's lens, field of view, range setting and NUC; null until entered. */
+  imagerSettings: imagerSettingsSchema.nullable(),
+  /** The calibration equation's table for the certificate (spot and reference pyrometers); null: none. */
+  calibrationEquation: calibrationEquationSettingsSchema.nullable(),
   /** The reference instrument (thermometer, hygrometer) that measured the ambient conditions. */
   ambientInstrumentId: id('Ambient conditions instrument').nullable(),
   adjusted: z.boolean({ error: 'Say whether the instrument was adjusted (true or false)' }),
@@ -53,6 +96,9 @@ export const runCreateSchema = headerFields
     emissivitySetting: headerFields.shape.emissivitySetting.optional().default(null),
     reflectedTemperatureK: headerFields.shape.reflectedTemperatureK.optional().default(null),
     instrumentTemperatureK: headerFields.shape.instrumentTemperatureK.optional().default(null),
+    emissivityRatioSetting: headerFields.shape.emissivityRatioSetting.optional().default(null),
+    imagerSettings: headerFields.shape.imagerSettings.optional().default(null),
+    calibrationEquation: headerFields.shape.calibrationEquation.optional().default(null),
     ambientInstrumentId: headerFields.shape.ambientInstrumentId.optional().default(null),
     adjusted: headerFields.shape.adjusted.default(false),
     internalNotes: optionalText(4000).default(null),
@@ -104,6 +150,35 @@ const readingsSchema = z
   .min(1, 'Give at least one reading')
   .max(MAX_READINGS, `At most ${MAX_READINGS} readings`)
 
+/** One region of interest at a point: name, top-left corner and size in pixels, its readings (K). */
+export const roiSchema = z.object({
+  name: roiName,
+  xPx: pixels('x', 0),
+  yPx: pixels('y', 0),
+  widthPx: pixels('Width', 1),
+  heightPx: pixels('Height', 1),
+  readingsK: readingsSchema,
+}, { error: 'Each region of interest is { name, xPx, yPx, widthPx, heightPx, readingsK }' })
+export type RoiInput = z.infer<typeof roiSchema>
+
+/** One ROI's frame series on a uniform source (K), for the NETD. */
+export const roiFramesSchema = z.object({
+  name: roiName,
+  framesK: z.array(kelvin('Frame'), { error: 'framesK is a list of temperatures in K' }).min(2, 'At least two frames').max(MAX_NETD_FRAMES, `At most ${MAX_NETD_FRAMES} frames`),
+}, { error: 'Each frame series is { name, framesK }' })
+export type RoiFramesInput = z.infer<typeof roiFramesSchema>
+
+function uniqueNames(list: readonly { name: string }[], field: string, ctx: z.RefinementCtx) {
+  const seen = new Set<string>()
+  list.forEach((r, i) => {
+    if (seen.has(r.name)) ctx.addIssue({ code: 'custom', path: [field, i, 'name'], message: `'${r.name}' is used by another region of interest` })
+    seen.add(r.name)
+  })
+}
+
+const roisSchema = z.array(roiSchema, { error: 'rois is a list of regions of interest' }).min(1, `Give the regions of interest, '${CENTRE_ROI}' among them`).max(MAX_ROIS, `At most ${MAX_ROIS} regions of interest`)
+const netdFramesSchema = z.array(roiFramesSchema, { error: 'netdFrames is a list of { name, framesK }' }).min(1, 'Give at least one frame series').max(MAX_ROIS, `At most ${MAX_ROIS} frame series`)
+
 const pointFields = z.object({
   stage: z.enum(POINT_STAGES, { error: 'The stage is as found or as left' }),
   sourceId: id('Source'),
@@ -114,8 +189,35 @@ const pointFields = z.object({
   referenceInstrumentId: id('Reference thermometer').nullable(),
   referenceReadingK: kelvin('Reference reading').nullable(),
   readingsK: readingsSchema,
+  /** A thermal imager's regions of interest; the centre ROI's readings are the point's readings. */
+  rois: roisSchema.nullable(),
+  /** A thermal imager's frame series on the uniform source, per ROI, for the NETD. */
+  netdFrames: netdFramesSchema.nullable(),
 })
 type PointShape = z.infer<typeof pointFields>
+
+/**
+ * A thermal imager's point: the ROIs have unique names and one is the centre, whose readings are the
+ * point's readings (sent or not); a frame series belongs to a point with ROIs.
+ */
+export function pointRoiRules(v: Partial<Omit<PointShape, 'readingsK'>> & { readingsK?: number[] }, ctx: z.RefinementCtx) {
+  const rois = v.rois ?? null
+  if (rois) {
+    uniqueNames(rois, 'rois', ctx)
+    const centre = rois.find(r => r.name === CENTRE_ROI)
+    if (!centre) ctx.addIssue({ code: 'custom', path: ['rois'], message: `One region of interest must be named '${CENTRE_ROI}': its readings are the point's readings` })
+    else if (v.readingsK !== undefined && (v.readingsK.length !== centre.readingsK.length || v.readingsK.some((r, i) => r !== centre.readingsK[i]))) {
+      ctx.addIssue({ code: 'custom', path: ['readingsK'], message: `A thermal imager's readings are those of its '${CENTRE_ROI}' region of interest: leave them out or send the same` })
+    }
+  }
+  else if (v.readingsK === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['readingsK'], message: 'Give at least one reading' })
+  }
+  if (v.netdFrames) {
+    if (!rois) ctx.addIssue({ code: 'custom', path: ['netdFrames'], message: 'A frame series for the NETD belongs to a thermal imager\'s point with regions of interest' })
+    uniqueNames(v.netdFrames, 'netdFrames', ctx)
+  }
+}
 
 /** Exactly one way to the reference temperature. */
 export function pointReferenceRules(v: Partial<PointShape>, ctx: z.RefinementCtx) {
@@ -140,9 +242,15 @@ export const pointCreateSchema = pointFields
     sourceIndicatedK: pointFields.shape.sourceIndicatedK.optional().default(null),
     referenceInstrumentId: pointFields.shape.referenceInstrumentId.optional().default(null),
     referenceReadingK: pointFields.shape.referenceReadingK.optional().default(null),
+    readingsK: readingsSchema.optional(),
+    rois: pointFields.shape.rois.optional().default(null),
+    netdFrames: pointFields.shape.netdFrames.optional().default(null),
     reason: reasonSchema,
   })
   .superRefine(pointReferenceRules)
+  .superRefine(pointRoiRules)
+  // a thermal imager's point reads at its centre ROI
+  .transform(v => ({ ...v, readingsK: v.readingsK ?? v.rois?.find(r => r.name === CENTRE_ROI)?.readingsK ?? [] }))
 export type PointCreateInput = z.infer<typeof pointCreateSchema>
 
 /** PATCH /api/runs/[id]/points/[pointId]: any subset, the point's version, a reason once the run was submitted. */

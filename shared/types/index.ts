@@ -65,3 +65,19 @@ export type * from './certificates'
 export type * from './requests'
 export type * from './mail'
 export type * from './quality'
+
+/**
+ * GET /api/overview: what needs attention, counted with the same conditions as the lists the tiles
+ * link to (a count is null when the role may not see that list). Dates are the laboratory's, YYYY-MM-DD.
+ */
+export interface OverviewDTO {
+  /** The laboratory's today; `overdue` counts instruments due before it. */
+  today: string
+  /** Today plus 30 days; `dueSoon` counts instruments due before it (overdue ones included). */
+  dueSoonBefore: string
+  overdue: number | null
+  dueSoon: number | null
+  openRequests: number | null
+  toReview: number | null
+  drafts: number | null
+}

@@ -183,6 +183,13 @@ export interface InstrumentDTO {
   bandLambda2Um: number | null
   spectralResponseId: number | null
   spectralResponseName: string | null
+  /** A ratio pyrometer's second band (µm) or its responsivity table; null for every other kind. */
+  band2Lambda1Um: number | null
+  band2Lambda2Um: number | null
+  band2SpectralResponseId: number | null
+  band2SpectralResponseName: string | null
+  /** A ratio pyrometer's emissivity-ratio ("slope") setting k; null for every other kind. */
+  emissivityRatioSetting: number | null
   distanceToSpot: number | null
   rangeMinK: number
   rangeMaxK: number
@@ -204,6 +211,8 @@ export interface InstrumentDTO {
 /** GET /api/instruments/[id]. `audit` is present for laboratory roles only, never for customers. */
 export interface InstrumentDetailDTO extends InstrumentDTO {
   spectralResponse: SpectralResponseDTO | null
+  /** A ratio pyrometer's band-2 responsivity table, when its second band is one. */
+  band2SpectralResponse?: SpectralResponseDTO | null
   audit?: AuditEventDTO[]
 }
 

@@ -2,7 +2,7 @@
  * DTOs of calibration procedures and runs (server/api/procedures, server/api/runs).
  * Temperatures and uncertainties in kelvin unless a field says otherwise.
  */
-import type { CertifiedBasis, SourceKind, WavelengthMediumName } from '../registers/constants'
+import type { CertifiedBasis, InstrumentKind, SourceKind, WavelengthMediumName } from '../registers/constants'
 import type {
   BudgetLineDistribution,
   ComponentType,
@@ -15,6 +15,9 @@ import type {
   TemplateDistribution,
 } from '../calibration/constants'
 import type { AccuracySpec } from '../schemas/instrument'
+import type { CalibrationEquationSettings, ImagerSettings, RoiFramesInput, RoiInput } from '../schemas/run'
+import type { ImagerNetdResult, ImagerPointStatistics } from '../calibration/imager'
+import type { EquationTable } from '../calibration/equation'
 import type { AuditEventDTO } from './index'
 
 /** One line of a procedure's uncertainty-budget template. */
@@ -241,6 +244,46 @@ export interface PointComputationInput {
   accuracy: AccuracySpec
   rule: DecisionRuleName
   guardBandFactor: number | null
+  /**
+   * A ratio (two-colour) pyrometer's point (engine 1.3.0): computed with the two-colour model of
+   * shared/radiometry/ratio.ts. `band` and `sourceEmissivity` are then band 1's; `instrumentTemperatureK`
+   * and `emissivitySetting` do not enter the model.
+   */
+  ratio?: RatioPointInput
+  /** A thermal imager's point (engine 1.3.0): its regions of interest; `readingsK` are the centre ROI's readings. */
+  imager?: ImagerPointInput
+}
+
+/** What a ratio pyrometer's point adds to the inputs: band 2, the source's emissivity in it and the ratio setting. */
+export interface RatioPointInput {
+  band2: BandInput
+  /** ε_s in band 2. */
+  sourceEmissivity2: number
+  /** The instrument's emissivity-ratio ("slope") setting k in the run. */
+  emissivityRatioSetting: number
+}
+
+/** What a thermal imager's point adds to the inputs. */
+export interface ImagerPointInput {
+  /** The regions of interest with their readings, K (position and size in pixels). */
+  rois: RoiInput[]
+  /** Name of the centre ROI (its readings are the point's `readingsK`). */
+  centreRoi: string
+  /** A series of frames on the uniform source, per ROI, K (for the NETD); null when none was recorded. */
+  netdFrames: RoiFramesInput[] | null
+}
+
+/** A thermal imager's point as computed: per ROI, the centre's error, the non-uniformity and the NETD (shared/calibration/imager.ts). */
+export interface ImagerPointResult {
+  /** Per ROI: its position and size (pixels) with the mean and s of its readings, K. */
+  rois: (ImagerPointStatistics['rois'][number] & { xPx: number, yPx: number, widthPx: number, heightPx: number })[]
+  centreRoi: string
+  /** Centre mean − expected reading, K (the point's error). */
+  centreErrorK: number
+  /** max − min, sample standard deviation of the ROI means and the largest deviation from the centre, K; null with one ROI. */
+  uniformity: ImagerPointStatistics['uniformity']
+  /** The NETD from the frame series (mean of the per-ROI temporal standard deviations), or null. */
+  netd: ImagerNetdResult | null
 }
 
 /** The computed result of one calibration point (shared/calibration/compute.ts returns exactly this). */
@@ -270,6 +313,8 @@ export interface PointResult {
   conformity: PointConformity
   engineVersion: string
   inputs: PointComputationInput
+  /** A thermal imager's point: ROI statistics, uniformity and NETD (engine 1.3.0). */
+  imager?: ImagerPointResult
 }
 
 /** Monte Carlo (JCGM 101) check of a point's GUM result. */
@@ -307,6 +352,10 @@ export interface RunPointDTO {
   sourceIndicatedK: number | null
   referenceReadingK: number | null
   readingsK: number[]
+  /** A thermal imager's regions of interest with their readings (null for other kinds). */
+  rois: RoiInput[] | null
+  /** A thermal imager's frame series on the uniform source for the NETD (null when none). */
+  netdFrames: RoiFramesInput[] | null
   result: PointResult
   monteCarlo: PointMonteCarloDTO | null
   /** A voided point is kept (greyed, audited) and never used or printed. */
@@ -343,6 +392,12 @@ export interface RunDTO {
   emissivitySetting: number | null
   reflectedTemperatureK: number | null
   instrumentTemperatureK: number | null
+  /** A ratio pyrometer's emissivity-ratio setting in the run (null until entered; null for other kinds). */
+  emissivityRatioSetting: number | null
+  /** A thermal imager's lens, field of view, range setting and non-uniformity correction (null until entered). */
+  imagerSettings: ImagerSettings | null
+  /** The temperatures of the calibration-equation table the certificate states, and the points' correlation (null: none). */
+  calibrationEquation: CalibrationEquationSettings | null
   ambientInstrumentId: number | null
   adjusted: boolean
   /** True when the run has no adjustment: the as-found results are also the as-left results. */
@@ -389,6 +444,12 @@ export interface RunInstrumentSummary {
   band: BandInput
   /** e.g. '8–14 µm' or the responsivity table's name. */
   bandLabel: string
+  kind: InstrumentKind
+  /** A ratio pyrometer's band 2 and its label (null for other kinds, or before it is recorded). */
+  band2: BandInput | null
+  band2Label: string | null
+  /** A ratio pyrometer's emissivity-ratio setting in the register. */
+  emissivityRatioSetting: number | null
   accuracy: AccuracySpec
   resolutionK: number
   rangeMinK: number
@@ -426,6 +487,15 @@ export interface RunDetailDTO extends RunDTO {
   /** The certificate issued from this run, if any; the certificate this run corrects, if any. */
   certificate: { id: number, number: string, status: string } | null
   corrects: { id: number, number: string } | null
+  /** The calibration equation through the as-left points with its table, when the run asks for one. */
+  equation: RunEquationDTO | null
+}
+
+/** A calibration equation through a run's as-left points and its table at the chosen temperatures (shared/calibration/equation.ts). */
+export interface RunEquationDTO {
+  /** The fit and its table, or why there is none (too few points, a temperature outside the calibrated range …). */
+  fit: EquationTable | null
+  problem: { field: string, message: string } | null
 }
 
 /** The receipt of the item (ISO/IEC 17025 7.4). */

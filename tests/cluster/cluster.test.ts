@@ -200,4 +200,26 @@ describe('two instances on one PostgreSQL', () => {
     expect(down.headers.get('content-type')).toBe('application/pdf')
     expect(sha256(new Uint8Array(await down.arrayBuffer()))).toBe(sha256(bytes))
   })
+
+  it('a list total cached on one instance follows writes made through the other; a user read on one is refused there at once after a revocation on the other', async () => {
+    const [techA, techB] = await both('technician')
+    const org = await makeCustomer(await signedIn('admin'))
+    const total = async () => (await techA.get(`/api/instruments?organizationId=${org.id}&pageSize=1`)).body.total as number
+    expect(await total()).toBe(0)
+    expect(await total()).toBe(0)
+    const made = await makeInstrument(techB, org.id)
+    expect(await total()).toBe(1)
+    expect((await techB.post(`/api/instruments/${made.id}/archive`, { archived: true, version: made.version })).status).toBe(200)
+    expect(await total()).toBe(0)
+
+    const adminB = (await both('admin'))[1]
+    const email = `${unique('cl')}@bandlight.test`
+    const user = await adminB.post('/api/admin/users', { email, name: 'Cluster Cached', role: 'technician', password: 'a-good-long-password' })
+    expect(user.status).toBe(201)
+    const onA = new Client({ 'x-forwarded-for': '198.51.100.79' }, A)
+    expect((await onA.login(email, 'a-good-long-password')).status).toBe(200)
+    for (let i = 0; i < 3; i++) expect((await onA.get('/api/auth/me')).status).toBe(200)
+    expect((await adminB.post(`/api/admin/users/${user.body.id}/active`, { active: false })).status).toBe(200)
+    expect((await onA.get('/api/auth/me')).status).toBe(401)
+  })
 })

@@ -38,7 +38,8 @@ describe('instrument register', () => {
     await expect.poll(() => page.getByTestId('instrument-record').textContent()).toContain('4.8–5.2 µm')
     await page.locator('#photo-file').setInputFiles(path.resolve(import.meta.dirname, '../fixtures/label-1px.png'))
     await expect.poll(() => page.getByTestId('label-photo-img').count()).toBe(1)
-    expect(await page.getByTestId('label-photo-img').evaluate(img => (img as HTMLImageElement).naturalWidth)).toBe(1)
+    // The image element comes before its bytes: wait for it to load.
+    await expect.poll(() => page.getByTestId('label-photo-img').evaluate(img => (img as HTMLImageElement).naturalWidth)).toBe(1)
     await shot(page, 'instrument-detail')
 
     await page.getByTestId('edit').click()

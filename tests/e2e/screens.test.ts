@@ -18,6 +18,12 @@ beforeAll(async () => {
     first('/api/runs?pageSize=1'), first('/api/certificates?pageSize=1'), first('/api/requests?pageSize=1'), first('/api/instruments?pageSize=1'),
     first('/api/customers?pageSize=1'), first('/api/sources?pageSize=1'), first('/api/reference-instruments?pageSize=1'), first('/api/procedures'),
   ])
+  // The quality records of the demo (scripts/demo-data/quality.ts): a plan, a comparison, the nonconformity, its corrective action, the complaint.
+  const [plan, proficiency, nonconformity, action, complaint] = await Promise.all([
+    first('/api/check-plans'), first('/api/proficiency-results?pageSize=1'), first('/api/nonconformities?pageSize=1'), first('/api/corrective-actions?pageSize=1'), first('/api/complaints?pageSize=1'),
+  ])
+  const customerClient = await signedIn('customer')
+  const ownComplaint = ((await customerClient.get('/api/complaints?pageSize=1')).body.rows[0] as { id: number } | undefined)?.id ?? null
   pages = [
     ...[
       ['overview', '/'], ['runs', '/runs'], ['run-new', '/runs/new'], ['run', `/runs/${run}`], ['certificates', '/certificates'], ['certificate', `/certificates/${certificate}`],
@@ -26,10 +32,15 @@ beforeAll(async () => {
       ['sources', '/sources'], ['source-new', '/sources/new'], ['source', `/sources/${source}`], ['references', '/reference-instruments'],
       ['reference-new', '/reference-instruments/new'], ['reference', `/reference-instruments/${reference}`], ['responsivities', '/responsivities'],
       ['procedures', '/procedures'], ['procedure-new', '/procedures/new'], ['procedure', `/procedures/${procedure}`],
+      ['quality', '/quality'], ['checks', '/quality/checks'], ['check-plan', `/quality/checks/${plan}`], ['proficiency', '/quality/proficiency'],
+      ['proficiency-result', `/quality/proficiency/${proficiency}`], ['nonconformities', '/quality/nonconformities'], ['nonconformity', `/quality/nonconformities/${nonconformity}`],
+      ['actions', '/quality/actions'], ['action', `/quality/actions/${action}`], ['complaints', '/complaints'], ['complaint', `/complaints/${complaint}`],
     ].filter(([, path]) => !path!.endsWith('/null')).map(([name, path]) => ({ role: 'quality' as Role, name: name!, path: path! })),
     ...[['lab', '/admin/lab'], ['users', '/admin/users'], ['organizations', '/admin/organizations'], ['audit', '/admin/audit'], ['mail', '/admin/mail']]
       .map(([name, path]) => ({ role: 'admin' as Role, name: `admin-${name}`, path: path! })),
-    ...[['customer-overview', '/'], ['customer-instruments', '/instruments'], ['customer-certificates', '/certificates'], ['customer-requests', '/requests']]
+    ...[['customer-overview', '/'], ['customer-instruments', '/instruments'], ['customer-certificates', '/certificates'], ['customer-requests', '/requests'],
+      ['customer-complaints', '/complaints'], ['customer-complaint', `/complaints/${ownComplaint}`]]
+      .filter(([, path]) => !path!.endsWith('/null'))
       .map(([name, path]) => ({ role: 'customer' as Role, name: name!, path: path! })),
   ]
 })

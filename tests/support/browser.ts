@@ -50,6 +50,8 @@ export async function shot(page: Page, name: string): Promise<void> {
 
 export async function signIn(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
   await page.goto(`${BASE_URL}/login`)
+  // A click before the page has hydrated would submit the bare HTML form (a reload, no sign-in): let its scripts load first.
+  await page.waitForLoadState('networkidle')
   await page.locator('#email').fill(email)
   await page.locator('#password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()

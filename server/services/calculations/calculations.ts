@@ -4,7 +4,7 @@
  * into a 400 naming the input that caused it. Answers that use Planck's law name the radiation
  * constants used (`constants`, and `c2` in m·K).
  */
-import type { BandRadianceInput, BudgetInput, ConformityCalcInput, ExpectedReadingInput, MonteCarloRequest, TemperatureInput } from '#shared/schemas/calculation'
+import type { BandRadianceInput, BudgetInput, CalibrationEquationRequest, ConformityCalcInput, ExpectedReadingInput, MonteCarloRequest, RatioReadingRequest, TemperatureInput } from '#shared/schemas/calculation'
 import type { SessionUser } from '#shared/types'
 import { resolveConstants, type RadiationConstantsId } from '#shared/radiometry/constants'
 import { EngineInputError } from '#shared/radiometry/errors'
@@ -12,6 +12,8 @@ import { bandRadiance, type Band } from '#shared/radiometry/planck'
 import { temperatureFromRadiance } from '#shared/radiometry/inversion'
 import { expectedReadingFromRadianceTemperature } from '#shared/radiometry/radianceTemperature'
 import { readingSensitivities } from '#shared/radiometry/reading'
+import { expectedRatioReading } from '#shared/radiometry/ratio'
+import { calibrationEquationAtReading, calibrationEquationAtReference, fitCalibrationEquation } from '#shared/radiometry/calibrationEquation'
 import { evaluateBudget, type BudgetComponent } from '#shared/uncertainty/budget'
 import { evaluateConformity } from '#shared/uncertainty/conformity'
 import { engine, notFound } from '#server/utils/errors'
@@ -72,6 +74,67 @@ export function expectedReadingOf(input: ExpectedReadingInput) {
   }
   const { expectedReadingK, ...sensitivities } = engine(() => readingSensitivities({ ...common, sourceTemperatureK: input.sourceTemperatureK! }), 'sourceTemperatureK')
   return { expectedReadingK, sensitivities, sourceTemperatureK: input.sourceTemperatureK!, ...stated(constants) }
+}
+
+/**
+ * A ratio (two-colour) pyrometer's expected reading with its sensitivity coefficients (shared/radiometry/ratio.ts):
+ * `{ expectedReadingK, sensitivities }` as the contract says, with the constants used.
+ */
+export function ratioReadingOf(input: RatioReadingRequest) {
+  const r = engine(() => expectedRatioReading({ ...input, band1: input.band1 as Band, band2: input.band2 as Band }), 'sourceTemperatureK')
+  return { expectedReadingK: r.expectedReadingK, sensitivities: r.sensitivities, ...stated(input.constants) }
+}
+
+/** An engine refusal of one value of a list, named by its place in the request (`temperaturesK[2]`). */
+function atIndex<T>(field: string, i: number, fn: () => T): T {
+  try {
+    return fn()
+  }
+  catch (err) {
+    if (err instanceof EngineInputError && err.field === 'temperatureK') {
+      throw new EngineInputError(`${field}[${i}]`, err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message)
+    }
+    throw err
+  }
+}
+
+/**
+ * A calibration equation through the points (Sakuma–Hattori or straight line, a common correlation r
+ * between the points) with the interpolated values at reference temperatures and at readings; a value
+ * outside the points' range is a 400 naming it (`temperaturesK[i]`, `readingsK[i]`).
+ */
+export function calibrationEquationOf(input: CalibrationEquationRequest) {
+  const n = input.points.length
+  const r = input.pointCorrelation
+  return engine(() => {
+    const eq = fitCalibrationEquation({
+      points: input.points,
+      model: input.model,
+      ...(input.band ? { band: input.band as Band } : {}),
+      ...(r > 0 ? { correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (__, j) => (i === j ? 1 : r))) } : {}),
+      coverageFactor: input.coverageFactor,
+      constants: input.constants,
+    })
+    return {
+      model: eq.model,
+      parameterNames: eq.parameterNames,
+      parameters: eq.parameters,
+      parameterUnits: eq.parameterUnits,
+      parameterStandardUncertainties: eq.parameterStandardUncertainties,
+      covariance: eq.covariance,
+      nominal: eq.nominal,
+      residuals: eq.residuals,
+      chiSquared: eq.chiSquared,
+      degreesOfFreedom: eq.degreesOfFreedom,
+      readingRangeK: eq.readingRangeK,
+      referenceRangeK: eq.referenceRangeK,
+      coverageFactor: eq.coverageFactor,
+      pointCorrelation: r,
+      atReference: input.temperaturesK.map((t, i) => atIndex('temperaturesK', i, () => calibrationEquationAtReference(eq, t))),
+      atReading: input.readingsK.map((t, i) => atIndex('readingsK', i, () => calibrationEquationAtReading(eq, t))),
+      ...stated(input.constants),
+    }
+  }, 'points')
 }
 
 /** A GUM budget, with correlated pairs when given (JCGM 100 5.2.2, eq. (16)). */

@@ -1,24 +1,23 @@
 /**
- * Monte Carlo propagation of distributions through the reading model (JCGM 101), run in
- * worker threads (one per core) so a 10⁶-trial run never blocks the server, then compared with the GUM
+ * Monte Carlo propagation of distributions through the reading model (JCGM 101), run on the
+ * process's worker pool (./pool.ts: at most one thread per core for all runs together, the rest
+ * queued) so a 10⁶-trial run never blocks the server — the sort and summary of the values too — then compared with the GUM
  * result for the same inputs (JCGM 101 §8). Two callers: the calculator's five reading-model inputs
  * ({@link runReadingMonteCarlo}) and a stored point's plan ({@link runPlanMonteCarlo}: the point's model
  * inputs and output terms sampled together, correlated pairs jointly; a fixed number of trials over the
  * workers, or the adaptive procedure of JCGM 101 7.9 on one worker).
  */
 import { createError } from 'h3'
-import os from 'node:os'
-import { Worker } from 'node:worker_threads'
-import workerCode from '#bandlight/mc-worker'
 import { monteCarloPlanInputs, type McModelSpec, type MonteCarloPlan } from '#shared/calibration/monteCarloPlan'
 import { resolveConstants } from '#shared/radiometry/constants'
 import { expectedReadingK, readingSensitivities } from '#shared/radiometry/reading'
 import { evaluateBudget, type BudgetComponent } from '#shared/uncertainty/budget'
-import { compileInputs, splitTrials, summarizeMonteCarlo, validateGumResult, type AdaptiveOptions, type MonteCarloCorrelation, type MonteCarloInput, type MonteCarloResult } from '#shared/uncertainty/montecarlo'
+import { EngineInputError } from '#shared/radiometry/errors'
+import { compileInputs, splitTrials, validateGumResult, type AdaptiveOptions, type MonteCarloCorrelation, type MonteCarloInput, type MonteCarloResult, type MonteCarloSummary } from '#shared/uncertainty/montecarlo'
 import type { McDistributionInput, MonteCarloRequest } from '#shared/schemas/calculation'
-import type { McWorkerData } from '#server/workers/readingMonteCarlo'
-import { config } from '#server/utils/config'
-import { engine } from '#server/utils/errors'
+import type { McAnswer, McWorkerData } from '#server/workers/readingMonteCarlo'
+import { engine, engineError } from '#server/utils/errors'
+import { monteCarloThreads, runOnPool } from './pool'
 
 const ORDER = ['sourceTemperatureK', 'sourceEmissivity', 'reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'] as const
 const SENSITIVITY_KEY = {
@@ -100,53 +99,33 @@ export function gumForReading(req: MonteCarloRequest) {
   }
 }
 
-type WorkerMessage = { type: 'progress', done: number, total?: number } | { type: 'done', values?: Float64Array, result?: MonteCarloResult } | { type: 'error', field: string | null, message: string }
-
-function runInWorker<T>(data: McWorkerData, onProgress: (done: number, total?: number) => void, take: (msg: { values?: Float64Array, result?: MonteCarloResult }) => T): Promise<T> {
-  return new Promise((resolve, reject) => {
-    const worker = new Worker(workerCode, { eval: true, workerData: data })
-    let settled = false
-    worker.on('message', (msg: WorkerMessage) => {
-      if (msg.type === 'progress') onProgress(msg.done, msg.total)
-      else if (msg.type === 'done') {
-        settled = true
-        resolve(take(msg))
-        void worker.terminate()
-      }
-      else if (msg.type === 'error') {
-        settled = true
-        reject(msg.field ? fieldError(msg.field, msg.message) : new Error(msg.message))
-        void worker.terminate()
-      }
-    })
-    worker.on('error', (err) => {
-      if (!settled) reject(err)
-    })
-    worker.on('exit', (code) => {
-      if (!settled) reject(new Error(`Monte Carlo worker stopped (exit ${code})`))
-    })
-  })
+/** A part of a run on the pool; an input the engine refused becomes a 400 naming it. */
+async function runPart(data: McWorkerData, onProgress: (done: number, total?: number) => void): Promise<Extract<McAnswer, { ok: true }>> {
+  const answer = await runOnPool(data, onProgress)
+  if (!answer.ok) throw answer.field ? fieldError(answer.field, answer.message) : new Error(answer.message)
+  return answer
 }
 
-/** Workers per run: one per core, at most 4 (MC_WORKERS overrides). */
-function workerCount(): number {
-  const n = config().monteCarloWorkers || os.availableParallelism?.() || os.cpus().length
-  return Math.min(4, Math.max(1, n))
+/** The summary of a run's values (sorted on a pool thread); the values are handed over, not copied. */
+async function summarize(values: Float64Array, coverageProbability: number): Promise<MonteCarloSummary> {
+  const answer = await runOnPool({ mode: 'summary', values, coverageProbability })
+  if (!answer.ok) throw engineError(answer.field ? new EngineInputError(answer.field, answer.message) : new Error(answer.message))
+  return engine(() => answer.summary!)
 }
 
-/** Run trials [0, M) split over worker threads; the values are the same as one run with the seed. */
+/** Run trials [0, M) split into one part per pool thread; the values are the same as one run with the seed. */
 async function runTrials(model: McModelSpec, inputs: MonteCarloInput[], correlations: MonteCarloCorrelation[], trials: number, seed: number, onProgress?: (done: number, total: number) => void): Promise<Float64Array> {
-  const ranges = splitTrials(trials, workerCount())
+  const ranges = splitTrials(trials, monteCarloThreads())
   const done = ranges.map(() => 0)
   const chunk = Math.max(8192, Math.ceil(trials / 50))
   const parts = await Promise.all(ranges.map(([start, end], i) =>
-    runInWorker({ mode: 'chunk', model, inputs, correlations, start, end, seed, chunk }, (d) => {
+    runPart({ mode: 'chunk', model, inputs, correlations, start, end, seed, chunk }, (d) => {
       done[i] = d
       onProgress?.(done.reduce((a, b) => a + b, 0), trials)
-    }, msg => msg.values!),
+    }),
   ))
   const values = new Float64Array(trials)
-  ranges.forEach(([start], i) => values.set(parts[i]!, start))
+  ranges.forEach(([start], i) => values.set(parts[i]!.values!, start))
   return values
 }
 
@@ -166,7 +145,7 @@ export async function runReadingMonteCarlo(req: MonteCarloRequest, onProgress?: 
   const gum = gumForReading(req)
   const inputs = ORDER.map(k => toEngineInput(k, req.inputs[k]))
   const values = await runTrials({ kind: 'reading', band: req.band, constants: req.constants }, inputs, [], req.trials, req.seed, onProgress)
-  const summary = engine(() => summarizeMonteCarlo(values, req.coverageProbability))
+  const summary = await summarize(values, req.coverageProbability)
   const check = gum.combinedStandardUncertainty > 0
     ? validateGumResult({ y: gum.expectedReadingK, U: gum.expandedUncertainty, u: gum.combinedStandardUncertainty }, summary.coverageInterval)
     : { validated: false, tolerance: 0, dLow: null, dHigh: null }
@@ -230,18 +209,17 @@ export async function runPlanMonteCarlo(plan: MonteCarloPlan, options: PlanMonte
   let summary: { trials: number, mean: number, standardUncertainty: number, coverageProbability: number, coverageInterval: { low: number, high: number } }
   let adaptive: PlanMonteCarloResult['adaptive'] = null
   if (options.adaptive) {
-    const r = await runInWorker<MonteCarloResult>(
+    const r: MonteCarloResult = (await runPart(
       { mode: 'adaptive', model: plan.model, inputs, correlations, seed: options.seed, coverageProbability: options.coverageProbability, adaptive: options.adaptive },
       (done, total) => onProgress?.(done, Math.max(total ?? done, done)),
-      msg => msg.result!,
-    )
+    )).result!
     summary = r
     const a = r.adaptive!
     adaptive = { batchTrials: a.batchTrials, batches: a.batches, significantDigits: a.significantDigits, tolerance: a.tolerance, converged: a.converged }
   }
   else {
     const values = await runTrials(plan.model, inputs, correlations, options.trials, options.seed, onProgress)
-    summary = engine(() => summarizeMonteCarlo(values, options.coverageProbability))
+    summary = await summarize(values, options.coverageProbability)
   }
   const check = plan.gum.u > 0
     ? validateGumResult({ y: plan.gum.y, U: plan.gum.U, u: plan.gum.u }, summary.coverageInterval)

@@ -11,7 +11,7 @@ const um = (v: number) => String(Number(v.toPrecision(6)))
 const emissivityText = (e: number) => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')
 
 /**
- * The basis statement for one source of a run.
+ * The basis statement for one source of a run (a ratio pyrometer's: the emissivity in both of its bands).
  * @param source - the source's asset tag and kind
  * @param results - the results of the run's points on this source
  * @param referenceTags - asset tags of the reference thermometers read in it, if any
@@ -23,7 +23,11 @@ export function basisStatement(source: { assetTag: string, kind: SourceKind }, r
   const kind = SOURCE_KIND_LABELS[source.kind].toLowerCase()
   const onSource = results.filter(r => r.inputs.reference.kind === 'source-correction')
   const emissivities = [...new Set(results.map(r => r.inputs.sourceEmissivity))]
-  const eps = `The emissivity of ${source.assetTag} used in the reading model is ${emissivities.map(emissivityText).join(', ')} in the instrument’s band.`
+  const ratio = results.find(r => r.inputs.ratio)?.inputs.ratio
+  const eps = ratio
+    // a ratio pyrometer: the source's emissivity in each of its two bands (issue 16)
+    ? `The emissivity of ${source.assetTag} used in the two-colour model is ${emissivities.map(emissivityText).join(', ')} in band 1 and ${[...new Set(results.map(r => r.inputs.ratio?.sourceEmissivity2).filter((e): e is number => e !== undefined))].map(emissivityText).join(', ')} in band 2.`
+    : `The emissivity of ${source.assetTag} used in the reading model is ${emissivities.map(emissivityText).join(', ')} in the instrument’s band.`
   const parts: string[] = []
   const first = onSource[0]?.inputs.reference
   const basis = first?.kind === 'source-correction' ? first.basis : undefined
@@ -34,7 +38,7 @@ export function basisStatement(source: { assetTag: string, kind: SourceKind }, r
     }
     else {
       const what = basis?.kind === 'cavity-temperature' ? 'cavity temperature' : basis?.kind === 'surface-temperature' ? 'surface (contact) temperature' : 'temperature'
-      parts.push(`${source.assetTag} (${kind}): its calibration certificate states the source’s ${what}; the reference temperature is that temperature at the set-point, corrected as the certificate states, and is the source temperature in the reading model.`)
+      parts.push(`${source.assetTag} (${kind}): its calibration certificate states the source’s ${what}; the reference temperature is that temperature at the set-point, corrected as the certificate states, and is the source temperature in the ${ratio ? 'two-colour' : 'reading'} model.`)
     }
   }
   if (referenceTags.length) parts.push(`Where a reference thermometer (${referenceTags.join(', ')}) is listed for ${source.assetTag}, the reference temperature is its reading in the source.`)

@@ -7,9 +7,11 @@
  * on record — the agreed specification and decision rule. Refusals name what is missing.
  */
 import type { Transaction } from 'sequelize'
-import { COVERAGE_PROBABILITY, CONDITION_LABELS, DECISION_RULE_NAMES, type ConditionField } from '#shared/calibration/constants'
+import { COVERAGE_PROBABILITY, CONDITION_LABELS, conditionFieldsFor, DECISION_RULE_NAMES, RUN_CONDITION_LABELS, type ConditionField } from '#shared/calibration/constants'
+import type { EquationTable } from '#shared/calibration/equation'
 import { celsiusFixed, describeAccuracy, describeBand, formatFixed } from '#shared/format'
-import { INSTRUMENT_KIND_LABELS, REFERENCE_KIND_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
+import { INSTRUMENT_KIND_LABELS, isImagerKind, isRatioKind, REFERENCE_KIND_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
+import { roundResult } from '#shared/uncertainty/budget'
 import type { RunAgreementDTO } from '#shared/types'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import type { CalibrationRun } from '#server/models/CalibrationRun'
@@ -24,8 +26,10 @@ import { SpectralResponse } from '#server/models/SpectralResponse'
 import { conflict } from '#server/utils/errors'
 import { calibrationsOf } from '#server/services/equipment/calibrations'
 import { agreementOf } from '#server/services/requests/agreement'
+import { loadRunContext, runEquation } from '#server/services/runs/context'
+import { IMAGER_SETTINGS_LABEL } from '#server/services/runs/workflow'
 import { basisStatement } from './basis'
-import type { CertificateData, CertificateEquipment } from './pdf'
+import type { CertificateData, CertificateEquation, CertificateEquipment, CertificateImager, CertificateRatio } from './pdf'
 
 const lines = (s: string | null | undefined) => (s ?? '').split(/\r?\n/).map(l => l.trim()).filter(Boolean)
 
@@ -67,13 +71,19 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
   if (!pv) conflict('The run’s procedure version no longer exists', 'runId')
   const receipt = await ItemReceipt.findOne({ where: { runId: run.id }, transaction: t })
   if (!receipt) conflict('No receipt of the item is recorded for this run: record it (date, packaging, condition) before a certificate can state it', 'receipt')
-  const missing = (['ambientTemperatureK', 'relativeHumidityPct', 'distanceMm', 'emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK'] as ConditionField[]).filter(f => run.get(f) == null)
-  if (missing.length) conflict(`These conditions were not recorded: ${missing.map(f => CONDITION_LABELS[f]).join(', ')}`, missing[0]!)
+  const ratio = isRatioKind(instrument.kind)
+  const imagerKind = isImagerKind(instrument.kind)
+  const missing = conditionFieldsFor(ratio).filter(f => run.get(f) == null)
+  if (missing.length) conflict(`These conditions were not recorded: ${missing.map(f => RUN_CONDITION_LABELS[f]).join(', ')}`, missing[0]!)
+  if (imagerKind && !run.imagerSettings) conflict(`${IMAGER_SETTINGS_LABEL} not recorded`, 'imagerSettings')
   const agreement = await agreementOf(run.requestId, t)
   if (agreement && !agreement.current) conflict('The terms of the calibration request changed after the customer agreed to them: the customer must agree to the current terms first', 'agreement')
   const table = instrument.spectralResponseId ? await SpectralResponse.findByPk(instrument.spectralResponseId, { transaction: t }) : null
   const points = await RunPoint.findAll({ where: { runId: run.id, voidedAt: null }, order: [['seq', 'ASC']], transaction: t })
   if (!points.length) conflict('The run has no points', 'points')
+  const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+  const equation = runEquation(run, ctx, points)
+  if (equation?.problem) conflict(`The calibration equation the run asks for cannot be stated: ${equation.problem.message}`, equation.problem.field)
 
   const sourceIds = [...new Set(points.map(p => p.sourceId))]
   const refIds = [...new Set([...points.map(p => p.referenceInstrumentId), run.ambientInstrumentId].filter((v): v is number => !!v))]
@@ -121,7 +131,9 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
         serial: instrument.serial,
         assetTag: instrument.assetTag ?? null,
         kind: INSTRUMENT_KIND_LABELS[instrument.kind] ?? instrument.kind,
-        band: describeBand({ bandLambda1Um: instrument.bandLambda1Um, bandLambda2Um: instrument.bandLambda2Um, spectralResponseName: table?.name ?? null }),
+        band: ratio && ctx.band2
+          ? `band 1: ${describeBand({ bandLambda1Um: instrument.bandLambda1Um, bandLambda2Um: instrument.bandLambda2Um, spectralResponseName: table?.name ?? null })}; band 2: ${describeBand({ bandLambda1Um: instrument.band2Lambda1Um ?? null, bandLambda2Um: instrument.band2Lambda2Um ?? null, spectralResponseName: ctx.table2?.name ?? null })}`
+          : describeBand({ bandLambda1Um: instrument.bandLambda1Um, bandLambda2Um: instrument.bandLambda2Um, spectralResponseName: table?.name ?? null }),
         rangeText: `${celsiusFixed(instrument.rangeMinK, 1)} °C to ${celsiusFixed(instrument.rangeMaxK, 1)} °C`,
         resolutionText: `${formatFixed(instrument.resolutionK, 2).replace(/0$/, '')} °C`,
         accuracyText,
@@ -146,9 +158,10 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
         ambientK: run.ambientTemperatureK!,
         relativeHumidityPct: run.relativeHumidityPct!,
         distanceMm: run.distanceMm!,
-        emissivitySetting: run.emissivitySetting!,
+        // a ratio pyrometer's model has no emissivity setting (its ratio setting is stated instead)
+        emissivitySetting: ratio ? null : run.emissivitySetting!,
         reflectedK: run.reflectedTemperatureK!,
-        instrumentK: run.instrumentTemperatureK!,
+        instrumentK: run.instrumentTemperatureK ?? null,
         measuredWith: ambient ? `measured with ${ambient.assetTag}` : null,
       },
       adjusted: !!run.adjusted,
@@ -167,6 +180,7 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
         acceptanceLimitK: p.result.conformity.acceptanceLimit,
         verdict: p.result.conformity.verdict,
         probabilityOfConformity: p.result.conformity.probabilityOfConformity ?? null,
+        ...(p.result.imager ? { imager: imagerPointText(p.result.imager.rois.length, p.result.imager.uniformity, p.result.rounded.uncertaintyText) } : {}),
       })),
       coverageProbability: first.budget.coverageProbability ?? COVERAGE_PROBABILITY,
       equipment,
@@ -178,7 +192,74 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
       },
       agreement: agreement ? agreementText(agreement) : null,
       remarks: run.certificateRemarks ?? null,
+      ratio: ratio ? ratioText(run, points, sources, describeBandOf(ctx.band, table?.name ?? null), ctx.band2 ? describeBandOf(ctx.band2, ctx.table2?.name ?? null) : '—') : null,
+      imager: imagerKind ? imagerText(run, points) : null,
+      equation: equation?.fit ? equationText(equation.fit) : null,
     },
+  }
+}
+
+const describeBandOf = (b: { kind: string, lambda1Um?: number, lambda2Um?: number }, tableName: string | null) =>
+  (b.kind === 'rectangular' ? `${b.lambda1Um}–${b.lambda2Um} µm` : `table: ${tableName ?? 'tabulated responsivity'}`)
+const emissivityText = (e: number) => formatFixed(e, 4).replace(/0+$/, '').replace(/\.$/, '')
+
+/** A ratio pyrometer's bands, ratio setting and the source emissivity in each band, from the points as computed. */
+function ratioText(run: CalibrationRun, points: RunPoint[], sources: BlackbodySource[], band1: string, band2: string): CertificateRatio {
+  return {
+    band1,
+    band2,
+    emissivityRatioSetting: run.emissivityRatioSetting!,
+    sources: sources.map((s) => {
+      const own = points.filter(p => p.sourceId === s.id)
+      const e1 = [...new Set(own.map(p => p.result.inputs.sourceEmissivity))].map(emissivityText).join(', ')
+      const e2 = [...new Set(own.map(p => p.result.inputs.ratio?.sourceEmissivity2).filter((e): e is number => e !== undefined))].map(emissivityText).join(', ')
+      return { assetTag: s.assetTag, emissivity1: e1, emissivity2: e2 || '—' }
+    }),
+  }
+}
+
+/** The uniformity of an imager's point as printed: to the decimal place of the point's U (at least two decimals). */
+function imagerPointText(roiCount: number, u: { rangeK: number, standardDeviationK: number } | null, uncertaintyText: string): { roiCount: number, rangeText: string | null, sdText: string | null } {
+  const dec = Math.max(2, uncertaintyText.includes('.') ? uncertaintyText.split('.')[1]!.length : 0)
+  return { roiCount, rangeText: u ? formatFixed(u.rangeK, dec) : null, sdText: u ? formatFixed(u.standardDeviationK, dec) : null }
+}
+
+/** A thermal imager's settings, its regions of interest (as first recorded, by name) and the NETD where frames were recorded. */
+function imagerText(run: CalibrationRun, points: RunPoint[]): CertificateImager {
+  const s = run.imagerSettings!
+  const rois = new Map<string, { name: string, xPx: number, yPx: number, widthPx: number, heightPx: number }>()
+  let centre = 'centre'
+  for (const p of points) {
+    const im = p.result.imager
+    if (!im) continue
+    centre = im.centreRoi
+    for (const r of im.rois) if (!rois.has(r.name)) rois.set(r.name, { name: r.name, xPx: r.xPx, yPx: r.yPx, widthPx: r.widthPx, heightPx: r.heightPx })
+  }
+  const netd = points.filter(p => p.result.imager?.netd).map((p) => {
+    const n = p.result.imager!.netd!
+    return { referenceK: p.result.referenceTemperatureK, netdText: formatFixed(n.netdK, n.netdK < 0.1 ? 3 : 2), roiCount: n.rois.length, frameCount: Math.max(...n.rois.map(r => r.n)) }
+  })
+  return { lens: s.lens, fieldOfView: s.fieldOfView, rangeSetting: s.rangeSetting, nonUniformityCorrection: s.nonUniformityCorrection, rois: [...rois.values()], centreRoi: centre, netd }
+}
+
+/** The calibration equation as the certificate prints it: parameters with u, and each row rounded to its U (GUM 7.2.6). */
+function equationText(e: EquationTable): CertificateEquation {
+  const sig = (v: number, d = 6) => Number(v.toPrecision(d)).toString()
+  return {
+    points: e.points,
+    pointCount: e.pointCount,
+    pointCorrelation: e.pointCorrelation,
+    parameters: e.parameters.map(p => ({ name: p.name, valueText: sig(p.value, 7), uText: sig(p.standardUncertainty, 2), unit: p.unit })),
+    nominalText: `A₀ = ${sig(e.nominal.A)} µm, B₀ = ${sig(e.nominal.B)} µm·K, c₂ = ${sig(e.c2UmK, 10)} µm·K`,
+    chiSquaredText: sig(e.chiSquared, 3),
+    degreesOfFreedom: e.degreesOfFreedom,
+    rangeK: e.rangeK,
+    coverageFactor: e.coverageFactor,
+    rows: e.rows.map((r) => {
+      const reading = roundResult(r.readingK - 273.15, r.expandedUncertaintyK)
+      const correction = roundResult(r.correctionK, r.expandedUncertaintyK)
+      return { temperatureK: r.temperatureK, readingText: reading.valueText.replace(/^-/, '−'), correctionText: correction.valueText, uncertaintyText: correction.uncertaintyText }
+    }),
   }
 }
 
@@ -208,6 +289,8 @@ export function describeChanges(before: { run: CalibrationRun, points: RunPoint[
     }
     if (o.sourceIndicatedK !== p.sourceIndicatedK && p.sourceIndicatedK !== null) diffs.push(`source indication ${o.sourceIndicatedK === null ? '—' : c(o.sourceIndicatedK)} → ${c(p.sourceIndicatedK)}`)
     if (o.referenceReadingK !== p.referenceReadingK && p.referenceReadingK !== null) diffs.push(`reference reading ${o.referenceReadingK === null ? '—' : c(o.referenceReadingK)} → ${c(p.referenceReadingK)}`)
+    if (JSON.stringify(o.rois ?? null) !== JSON.stringify(p.rois ?? null)) diffs.push('regions of interest or their readings')
+    if (JSON.stringify(o.netdFrames ?? null) !== JSON.stringify(p.netdFrames ?? null)) diffs.push('frame series for the NETD')
     if (o.result.rounded.errorText !== p.result.rounded.errorText) diffs.push(`error ${o.result.rounded.errorText} °C → ${p.result.rounded.errorText} °C`)
     if (o.result.rounded.uncertaintyText !== p.result.rounded.uncertaintyText) diffs.push(`U ${o.result.rounded.uncertaintyText} °C → ${p.result.rounded.uncertaintyText} °C`)
     if (diffs.length) out.push(`point ${p.seq}: ${diffs.join(', ')}`)
@@ -223,6 +306,9 @@ export function describeChanges(before: { run: CalibrationRun, points: RunPoint[
   for (const f of ['ambientTemperatureK', 'relativeHumidityPct', 'distanceMm', 'emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK'] as ConditionField[]) {
     if (before.run.get(f) !== after.run.get(f)) out.push(`${CONDITION_LABELS[f].toLowerCase()} ${condition(f, before.run.get(f))} → ${condition(f, after.run.get(f))}`)
   }
+  if ((before.run.emissivityRatioSetting ?? null) !== (after.run.emissivityRatioSetting ?? null)) out.push(`emissivity-ratio setting ${before.run.emissivityRatioSetting ?? '—'} → ${after.run.emissivityRatioSetting ?? '—'}`)
+  if (JSON.stringify(before.run.imagerSettings ?? null) !== JSON.stringify(after.run.imagerSettings ?? null)) out.push('imager settings (lens, field of view, range, non-uniformity correction)')
+  if (JSON.stringify(before.run.calibrationEquation ?? null) !== JSON.stringify(after.run.calibrationEquation ?? null)) out.push('calibration equation table')
   if ((before.run.certificateRemarks ?? '') !== (after.run.certificateRemarks ?? '')) out.push('remarks')
   if ((before.run.methodDeviations ?? '') !== (after.run.methodDeviations ?? '')) out.push('deviations from the method')
   return out

@@ -42,6 +42,47 @@ export interface CertificatePoint {
    * beside the verdict; null for results computed before it was recorded.
    */
   probabilityOfConformity?: number | null
+  /** A thermal imager's point: the non-uniformity over its ROIs as printed (max − min, s of the ROI means), K. */
+  imager?: { roiCount: number, rangeText: string | null, sdText: string | null } | null
+}
+
+/** What a ratio (two-colour) pyrometer's certificate adds: both bands, the ratio setting, the source's ε in each band. */
+export interface CertificateRatio {
+  band1: string
+  band2: string
+  emissivityRatioSetting: number
+  /** Per source: the emissivity used in each band, as the points were computed. */
+  sources: { assetTag: string, emissivity1: string, emissivity2: string }[]
+}
+
+/** What a thermal imager's certificate adds (IEC TS 63144-1, VDI/VDE 5585 list these; from memory). */
+export interface CertificateImager {
+  lens: string
+  fieldOfView: string
+  rangeSetting: string
+  nonUniformityCorrection: boolean
+  /** Regions of interest as used (name, top-left corner and size in pixels), in order. */
+  rois: { name: string, xPx: number, yPx: number, widthPx: number, heightPx: number }[]
+  centreRoi: string
+  /** NETD where a frame series on the uniform source was recorded: at which point, the value and how many ROIs and frames. */
+  netd: { referenceK: number, netdText: string, roiCount: number, frameCount: number }[]
+}
+
+/** A calibration equation with its interpolated table (spot and reference pyrometers). */
+export interface CertificateEquation {
+  /** 'as-left' (adjusted run) or 'all' points fitted. */
+  points: 'as-left' | 'all'
+  pointCount: number
+  pointCorrelation: number
+  /** A, B, C with their standard uncertainties, as printed. */
+  parameters: { name: string, valueText: string, uText: string, unit: string }[]
+  /** The nominal band's A₀, B₀ and c₂ that turn a reading into the signal fitted. */
+  nominalText: string
+  chiSquaredText: string
+  degreesOfFreedom: number
+  rangeK: { min: number, max: number }
+  coverageFactor: number
+  rows: { temperatureK: number, readingText: string, correctionText: string, uncertaintyText: string }[]
 }
 
 export interface CertificateEquipment {
@@ -105,9 +146,11 @@ export interface CertificateData {
     ambientK: number
     relativeHumidityPct: number
     distanceMm: number
-    emissivitySetting: number
+    /** Null for a ratio pyrometer's run, whose model has no emissivity setting (its ratio setting is in `ratio`). */
+    emissivitySetting: number | null
     reflectedK: number
-    instrumentK: number
+    /** Null for a ratio pyrometer's run when it was not entered (its model does not use it). */
+    instrumentK: number | null
     /** The reference instrument that measured the ambient conditions, when recorded. */
     measuredWith: string | null
   }
@@ -136,6 +179,12 @@ export interface CertificateData {
   } | null
   /** Remarks for the customer (never the laboratory's internal notes). */
   remarks: string | null
+  /** A ratio pyrometer's bands, ratio setting and source emissivities (absent for other kinds). */
+  ratio?: CertificateRatio | null
+  /** A thermal imager's settings, regions of interest and NETD (absent for other kinds). */
+  imager?: CertificateImager | null
+  /** The calibration equation and its interpolated table, when the run asked for one. */
+  equation?: CertificateEquation | null
   signatory: { name: string, function: string, meaning: string, signedAt: string }
   verification: { code: string, url: string }
 }
@@ -385,7 +434,8 @@ function itemBlock(w: Writer, d: CertificateData): void {
     ['Asset tag', i.assetTag ?? '—'],
   ], MARGIN.left, col, 80)
   const right = w.fields([
-    ['Spectral band', i.band],
+    // a ratio pyrometer's two bands on two rows
+    ...(d.ratio ? [['Band 1', d.ratio.band1], ['Band 2', d.ratio.band2]] as [string, string][] : [['Spectral band', i.band]] as [string, string][]),
     ['Measuring range', i.rangeText],
     ['Resolution', i.resolutionText],
     ['Specification', i.accuracyText],
@@ -422,16 +472,26 @@ function methodBlock(w: Writer, d: CertificateData): void {
     ['Issued', longDate(d.dates.issued)],
     ['Place', d.place.kind === 'laboratory' ? `In the laboratory: ${d.place.addressLines.join(', ')}` : `At the customer’s site: ${d.place.addressLines.join(', ')}`],
   ], MARGIN.left, col, 80)
-  const right = w.fields([
+  const conditions: [string, string][] = [
     ['Ambient', `${celsius(e.ambientK, 1)} °C, ${formatFixed(e.relativeHumidityPct, 0)} %RH${e.measuredWith ? ` (${e.measuredWith})` : ''}`],
     ['Distance', `${formatFixed(e.distanceMm, 0)} mm from the source`],
-    ['Emissivity setting', formatFixed(e.emissivitySetting, 3)],
-    ['Reflected temperature', `${celsius(e.reflectedK, 1)} °C`],
-    ['Instrument temperature', `${celsius(e.instrumentK, 1)} °C`],
-  ], MARGIN.left + col + 20, col, 108)
+  ]
+  if (d.ratio) conditions.push(['Emissivity-ratio setting', formatFixed(d.ratio.emissivityRatioSetting, 3)])
+  if (e.emissivitySetting !== null) conditions.push(['Emissivity setting', formatFixed(e.emissivitySetting, 3)])
+  conditions.push(['Reflected temperature', `${celsius(e.reflectedK, 1)} °C`])
+  if (e.instrumentK !== null) conditions.push(['Instrument temperature', `${celsius(e.instrumentK, 1)} °C`])
+  if (d.imager) {
+    conditions.push(['Lens', d.imager.lens], ['Field of view', d.imager.fieldOfView], ['Range setting', d.imager.rangeSetting], ['Non-uniformity correction', d.imager.nonUniformityCorrection ? 'done before measuring' : 'not done'])
+  }
+  const right = w.fields(conditions, MARGIN.left + col + 20, col, 108)
   w.y += Math.max(left, right) + 2
   w.paragraph(`Deviations from the method: ${d.methodDeviations ?? 'none recorded.'}`, 8.2, INK, 4)
-  w.paragraph(`The instrument viewed the blackbody source at the distance and emissivity setting stated. ${d.referenceBasis} The expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band.`, 8, MUTED, 4)
+  const model = d.ratio
+    ? `The instrument is a ratio (two-colour) pyrometer: its expected reading is the temperature T_R whose blackbody band radiances in band 1 (${d.ratio.band1}) and band 2 (${d.ratio.band2}) have the ratio of the source’s signals divided by the emissivity-ratio setting k = ${formatFixed(d.ratio.emissivityRatioSetting, 3)}, each signal holding the source emissivity in its band and the reflected radiation. Source emissivity used: ${d.ratio.sources.map(x => `${x.assetTag} ε1 = ${x.emissivity1} in band 1, ε2 = ${x.emissivity2} in band 2`).join('; ')}.`
+    : d.imager
+      ? `The instrument is a thermal imager: the error is stated at its centre region of interest (“${d.imager.centreRoi}”); the expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band.`
+      : 'The expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band.'
+  w.paragraph(`The instrument viewed the blackbody source at the distance and ${d.ratio ? 'ratio setting' : 'emissivity setting'} stated. ${d.referenceBasis} ${model}`, 8, MUTED, 4)
 }
 
 /** The result columns; tolerance and verdict only where a statement of conformity is made. */
@@ -518,7 +578,105 @@ function resultsBlock(w: Writer, d: CertificateData): void {
   const withConformity = d.agreement !== null
   resultsTable(w, d.adjusted ? 'As found (before adjustment)' : 'As found and as left (no adjustment made)', found, withConformity)
   if (d.adjusted && left.length) resultsTable(w, 'As left (after adjustment)', left, withConformity)
-  w.paragraph('Temperatures are stated on the International Temperature Scale of 1990 in degrees Celsius; t/°C = T/K − 273.15, and a difference of 1 °C equals 1 K. Error = mean reading − expected reading; the correction is the error with its sign reversed. n is the number of readings averaged at each point. Values are rounded to the decimal place of their expanded uncertainty.', 8, MUTED)
+  w.paragraph(`Temperatures are stated on the International Temperature Scale of 1990 in degrees Celsius; t/°C = T/K − 273.15, and a difference of 1 °C equals 1 K. Error = mean reading − expected reading${d.imager ? ` at the centre region of interest (“${d.imager.centreRoi}”)` : ''}; the correction is the error with its sign reversed. n is the number of readings averaged at each point. Values are rounded to the decimal place of their expanded uncertainty.`, 8, MUTED)
+  if (d.imager) imagerBlock(w, d, d.imager)
+}
+
+/** A small table: header row and rows of text cells, columns right-aligned but the first. */
+function smallTable(w: Writer, cols: { title: string, w: number, align?: 'left' | 'right' }[], rows: string[][]): void {
+  const { doc } = w
+  const rowH = 14
+  const head = () => {
+    doc.save().rect(MARGIN.left, w.y, CONTENT_W, 24).fill(INK).restore()
+    let x = MARGIN.left
+    w.font('semibold', 7.4, '#ffffff')
+    for (const c of cols) {
+      doc.text(c.title, x + 4, w.y + 4, { width: c.w - 8, align: c.align ?? 'right', lineGap: -0.5 })
+      x += c.w
+    }
+    w.y += 24
+  }
+  w.ensure(24 + rowH * Math.min(rows.length, 3))
+  head()
+  rows.forEach((cells, i) => {
+    if (w.y + rowH > BOTTOM) {
+      doc.addPage()
+      w.y = MARGIN.top
+      head()
+    }
+    if (i % 2 === 1) doc.save().rect(MARGIN.left, w.y, CONTENT_W, rowH).fill(SHADE).restore()
+    let x = MARGIN.left
+    w.font('regular', 8.4, INK)
+    cells.forEach((c, j) => {
+      doc.text(c, x + 4, w.y + 3.2, { width: cols[j]!.w - 8, align: cols[j]!.align ?? 'right', lineBreak: false })
+      x += cols[j]!.w
+    })
+    w.y += rowH
+  })
+  doc.save().moveTo(MARGIN.left, w.y).lineTo(PAGE.width - MARGIN.right, w.y).lineWidth(0.6).strokeColor(RULE).stroke().restore()
+  w.y += 8
+}
+
+/** Widths that fill the content width: the last column takes the rest. */
+function widths(ws: number[]): number[] {
+  const used = ws.slice(0, -1).reduce((a, b) => a + b, 0)
+  return [...ws.slice(0, -1), CONTENT_W - used]
+}
+
+/** A thermal imager: the centre ROI's error with U and the non-uniformity per point, the ROIs, the NETD. */
+function imagerBlock(w: Writer, d: CertificateData, im: CertificateImager): void {
+  w.heading('Thermal imager: centre region of interest and uniformity', 90)
+  const ws = widths([78, 78, 70, 34, 100, 90, 0])
+  const rows = d.points.map((p) => {
+    const dec = Math.max(2, decimalsOf(p.uncertaintyText))
+    return [
+      `${p.stage === 'as-left' ? 'as left' : d.adjusted ? 'as found' : ''} ${celsius(p.referenceK, dec)}`.trim(),
+      signed(p.errorText),
+      p.uncertaintyText,
+      formatFixed(p.coverageFactor, 2),
+      p.imager?.rangeText ?? '—',
+      p.imager?.sdText ?? '—',
+      String(p.imager?.roiCount ?? '—'),
+    ]
+  })
+  smallTable(w, [
+    { title: 'Reference\ntemperature °C', w: ws[0]!, align: 'left' },
+    { title: 'Error at the\ncentre ROI °C', w: ws[1]! },
+    { title: 'Expanded\nuncertainty U °C', w: ws[2]! },
+    { title: 'k', w: ws[3]! },
+    { title: 'Non-uniformity\nmax − min °C', w: ws[4]! },
+    { title: 'Standard deviation\nof the ROI means °C', w: ws[5]! },
+    { title: 'ROIs', w: ws[6]! },
+  ], rows)
+  w.paragraph('The non-uniformity is evaluated over the regions of interest on the uniform source: the largest minus the smallest ROI mean, and the sample standard deviation of the ROI means (n − 1), every ROI counted, the centre included (IEC TS 63144-1 and VDI/VDE 5585 ask for the non-uniformity; this evaluation is common practice). The uncertainty U applies to the error at the centre.', 8, MUTED)
+  const rw = widths([150, 80, 80, 90, 0])
+  smallTable(w, [
+    { title: 'Region of interest', w: rw[0]!, align: 'left' },
+    { title: 'x (px)', w: rw[1]! },
+    { title: 'y (px)', w: rw[2]! },
+    { title: 'Width (px)', w: rw[3]! },
+    { title: 'Height (px)', w: rw[4]! },
+  ], im.rois.map(r => [r.name === im.centreRoi ? `${r.name} (centre)` : r.name, String(r.xPx), String(r.yPx), String(r.widthPx), String(r.heightPx)]))
+  w.paragraph('Positions are those of each region’s top-left corner in the image, in pixels from its top-left corner.', 8, MUTED)
+  if (im.netd.length) {
+    const text = im.netd.map(n => `at ${celsius(n.referenceK, 1)} °C: NETD = ${n.netdText} K (${n.roiCount} region${n.roiCount === 1 ? '' : 's'} of interest, ${n.frameCount} frames)`).join('; ')
+    w.paragraph(`Noise-equivalent temperature difference (NETD), ${text}. Evaluated as the temporal standard deviation (n − 1) of each region’s value over a series of frames on the uniform, stable source, averaged over the regions: common practice — no standard is named for this evaluation.`)
+  }
+}
+
+/** The calibration equation and its table of interpolated values, clearly marked as such. */
+function equationBlock(w: Writer, d: CertificateData, eq: CertificateEquation): void {
+  w.heading('Calibration equation (interpolated values)', 120)
+  const params = eq.parameters.map(p => `${p.name} = ${p.valueText} ${p.unit === '1' ? '' : p.unit} (u = ${p.uText}${p.unit === '1' ? '' : ` ${p.unit}`})`.replace(/\s+\(/, ' (')).join(', ')
+  w.paragraph(`The Sakuma–Hattori equation was fitted by weighted least squares through the ${eq.pointCount} ${eq.points === 'as-left' ? 'as-left ' : ''}calibration points (${celsius(eq.rangeK.min, 1)} °C to ${celsius(eq.rangeK.max, 1)} °C), each weighted by its uncertainty${eq.pointCorrelation > 0 ? `, with a correlation coefficient r = ${formatFixed(eq.pointCorrelation, 2)} between the points` : ', taken as independent'}: T = c₂/(A·ln(C/s + 1)) − B/A, where s = 1/(exp(c₂/(A₀·R + B₀)) − 1) is the signal of the reading R in the instrument’s nominal band (${eq.nominalText}). Parameters: ${params}; χ² = ${eq.chiSquaredText} with ${eq.degreesOfFreedom} degree${eq.degreesOfFreedom === 1 ? '' : 's'} of freedom.`)
+  const ws = widths([130, 120, 100, 0])
+  smallTable(w, [
+    { title: 'Temperature °C\n(interpolated)', w: ws[0]!, align: 'left' },
+    { title: 'Indicated reading °C\n(from the equation)', w: ws[1]! },
+    { title: 'Correction °C', w: ws[2]! },
+    { title: `Expanded uncertainty U °C\n(k = ${formatFixed(eq.coverageFactor, 0)}) of the interpolated value`, w: ws[3]! },
+  ], eq.rows.map(r => [`${celsius(r.temperatureK, Math.max(1, decimalsOf(r.uncertaintyText)))} (interpolated)`, r.readingText, signed(r.correctionText), r.uncertaintyText]))
+  w.paragraph(`The values in this table are interpolated with the calibration equation between the calibration points; they were not measured. U comes from the covariance of the equation’s parameters, which carries the points’ uncertainties (JCGM 100:2008 with correlations); k = ${formatFixed(eq.coverageFactor, 0)} gives a coverage probability of about 95 % for a normal distribution. The equation is not valid outside ${celsius(eq.rangeK.min, 1)} °C to ${celsius(eq.rangeK.max, 1)} °C and must not be extrapolated.`, 8, MUTED)
 }
 
 function chart(w: Writer, d: CertificateData): void {
@@ -615,7 +773,7 @@ function niceStep(range: number): number {
 }
 
 function uncertaintyBlock(w: Writer, d: CertificateData): void {
-  w.heading('Measurement uncertainty', 50)
+  w.heading('Measurement uncertainty', 80)
   const ks = [...new Set(d.points.map(p => p.coverageFactor.toFixed(2)))]
   const normal = ks.every(k => k === '2.00')
   const kText = ks.length === 1 ? `k = ${ks[0]}` : `k from ${ks[0]} to ${ks[ks.length - 1]} as stated for each point`
@@ -897,6 +1055,7 @@ export async function certificatePdf(data: CertificateData, fonts?: CertificateF
   methodBlock(w, data)
   resultsBlock(w, data)
   chart(w, data)
+  if (data.equation) equationBlock(w, data, data.equation)
   uncertaintyBlock(w, data)
   traceabilityBlock(w, data)
   // The statement of conformity, the remarks and the signature stay together on one page.

@@ -303,8 +303,9 @@ function resultContext(mr: Node, input: DccInput): void {
   condition({ refType: REF.humidityRelative, name: 'Relative humidity', description: measured, value: formatFixed(env.relativeHumidityPct, 0), unit: UNIT.percent })
   condition({ name: 'Measuring distance', description: 'Distance from the instrument to the source.', value: formatFixed(env.distanceMm, 0), unit: UNIT.millimetre })
   condition({ name: 'Reflected temperature', description: 'Temperature of the surroundings reflected by the source.', value: kelvinFixed(env.reflectedK, 1), unit: UNIT.kelvin })
-  condition({ name: 'Emissivity setting', description: 'Emissivity setting of the instrument during the calibration.', value: formatFixed(env.emissivitySetting, 3), unit: UNIT.one })
-  condition({ name: 'Instrument temperature', description: 'Temperature of the instrument (its detector housing) during the calibration.', value: kelvinFixed(env.instrumentK, 1), unit: UNIT.kelvin })
+  if (d.ratio) condition({ name: 'Emissivity-ratio setting', description: 'Emissivity-ratio (slope) setting k of the ratio pyrometer during the calibration.', value: formatFixed(d.ratio.emissivityRatioSetting, 3), unit: UNIT.one })
+  if (env.emissivitySetting != null) condition({ name: 'Emissivity setting', description: 'Emissivity setting of the instrument during the calibration.', value: formatFixed(env.emissivitySetting, 3), unit: UNIT.one })
+  if (env.instrumentK != null) condition({ name: 'Instrument temperature', description: 'Temperature of the instrument (its detector housing) during the calibration.', value: kelvinFixed(env.instrumentK, 1), unit: UNIT.kelvin })
 }
 
 function pointResult(results: Node, input: DccInput, p: CertificatePoint, index: number): void {
@@ -324,6 +325,11 @@ function pointResult(results: Node, input: DccInput, p: CertificatePoint, index:
     unit: UNIT.kelvin,
     unc: { uncertainty: p.uncertaintyText, coverageFactor: formatFixed(p.coverageFactor, 2), coverageProbability: dsiProbability(d.coverageProbability) },
   })
+  if (p.imager?.rangeText != null && p.imager.sdText != null) {
+    // a thermal imager: the non-uniformity over its regions of interest, as the PDF states it
+    quantity(data, { name: 'Non-uniformity over the regions of interest (max − min of the ROI means)', value: p.imager.rangeText, unit: UNIT.kelvin })
+    quantity(data, { name: 'Standard deviation of the ROI means', value: p.imager.sdText, unit: UNIT.kelvin })
+  }
   if (d.agreement) {
     const ag = d.agreement
     const md = dcc(dcc(err, 'measurementMetaData'), 'metaData', { refType: REF.conformity })
@@ -365,7 +371,11 @@ function measurementResults(root: Node, input: DccInput): void {
     named(mr, 'description',
       'Temperatures on the International Temperature Scale of 1990 (ITS-90), in kelvin. Values are rounded to the decimal place of their expanded uncertainty.',
       d.referenceBasis,
-      'The expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band, at the emissivity setting and distance stated.')
+      d.ratio
+        ? `Ratio (two-colour) pyrometer, band 1 ${d.ratio.band1}, band 2 ${d.ratio.band2}: the expected reading is the temperature whose blackbody band radiances have the ratio of the source’s signals divided by the emissivity-ratio setting k = ${formatFixed(d.ratio.emissivityRatioSetting, 3)}; source emissivity ${d.ratio.sources.map(x => `${x.assetTag} ${x.emissivity1} in band 1, ${x.emissivity2} in band 2`).join('; ')}.`
+        : d.imager
+          ? `Thermal imager (lens ${d.imager.lens}, field of view ${d.imager.fieldOfView}, range ${d.imager.rangeSetting}, non-uniformity correction ${d.imager.nonUniformityCorrection ? 'done' : 'not done'}): the error is stated at the centre region of interest; the expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band, at the emissivity setting and distance stated.`
+          : 'The expected reading accounts for the source emissivity, the reflected radiation and the instrument temperature in the instrument’s spectral band, at the emissivity setting and distance stated.')
     resultContext(mr, input)
     const results = dcc(mr, 'results')
     table.points.forEach((p, i) => pointResult(results, input, p, i + 1))

@@ -2,21 +2,60 @@
  * The instrument list query, shared by GET /api/instruments and the benchmark
  * (scripts/bench/registers.ts), so both run the same SQL. No Nitro auto-imports here.
  *
- * Speed on 100 000 rows comes from migration 0002's indexes: one per sortable text column
- * (NOCASE, so prefix LIKE and ORDER BY use them), nextDueDate, and (organizationId, status,
- * serial) for a customer's list. The page is a LIMIT/OFFSET query ordered by the sort column and
- * then id (a stable order); the total is a separate COUNT over the same WHERE.
+ * Speed on 100 000 rows:
+ * - the page: a LIMIT/OFFSET query for ids ordered by the sort column and then id (a stable order),
+ *   served by migration 0002's indexes (one per sortable text column, NOCASE, and (archived, column);
+ *   0011's (archived, column, id) on PostgreSQL); then those rows, with their organization's and
+ *   responsivity table's names joined in, as plain rows (no model instances): {@link queryInstrumentPage};
+ * - the total: counted once per filter and kept against the change counter `instruments`
+ *   (server/utils/changeCounters.ts): a later page, or the same filter from any client, reuses it
+ *   until an instrument is added, archived or changed in a column a filter reads, on any instance;
+ * - the search `q` finds any part of a serial or asset tag — SQLite: the FTS5 trigram table
+ *   `instrument_search` (migration 0015); PostgreSQL: trigram GIN indexes on lower(serial) and
+ *   lower("assetTag") — and a maker or model by its beginning (their prefix indexes). Text shorter
+ *   than three characters (no trigram in it) is looked for with LIKE '%…%' over the table.
  */
-import { Op, literal, type Order } from 'sequelize'
+import { Op, QueryTypes, literal, type Order } from 'sequelize'
+import type { InstrumentKind, InstrumentStatus } from '#shared/registers/constants'
 import type { InstrumentQuery } from '#shared/schemas/registerQuery'
+import type { AccuracySpec } from '#shared/schemas/instrument'
 import { Instrument } from '#server/models/Instrument'
-import { onPostgres } from '#server/utils/db'
-import { ListFilter, quotedColumn } from '#server/utils/search'
+import { CountCache } from '#server/utils/changeCounters'
+import { onPostgres, sequelize } from '#server/utils/db'
+import { ListFilter, escapeLike, likeCondition, quotedColumn } from '#server/utils/search'
 
 export type InstrumentListOptions = Pick<InstrumentQuery, 'page' | 'pageSize' | 'sort' | 'dir'> & Partial<Pick<InstrumentQuery, 'q' | 'status' | 'kind' | 'organizationId' | 'dueBefore' | 'archived'>>
 
-/** Columns the prefix search `q` looks at (all indexed, NOCASE). */
+/** Columns the search `q` looks at: any part of serial and asset tag, the beginning of maker and model. */
 export const INSTRUMENT_SEARCH_COLUMNS = ['serial', 'assetTag', 'maker', 'model'] as const
+/** The columns searched anywhere in their text (trigram indexes). */
+export const INSTRUMENT_CONTAINS_COLUMNS = ['serial', 'assetTag'] as const
+/** The columns searched by their beginning (prefix indexes). */
+export const INSTRUMENT_PREFIX_COLUMNS = ['maker', 'model'] as const
+
+/** The fewest characters a trigram index can look up. */
+const TRIGRAM = 3
+
+/** An FTS5 string: the text in double quotes, inner quotes doubled (matched as one run of characters). */
+function ftsPhrase(q: string): string {
+  return `"${q.replace(/"/g, '""')}"`
+}
+
+/** `q` anywhere in serial or asset tag, or at the start of maker or model. */
+function addSearch(f: ListFilter, q: string): void {
+  const col = (c: string) => quotedColumn('Instrument', c)
+  const prefix = f.param(`${escapeLike(q)}%`)
+  const starts = INSTRUMENT_PREFIX_COLUMNS.map(c => likeCondition(col(c), prefix))
+  let anywhere: string[]
+  if (!onPostgres() && [...q].length >= TRIGRAM) {
+    anywhere = [`${col('id')} IN (SELECT rowid FROM instrument_search WHERE instrument_search MATCH ${f.param(ftsPhrase(q))})`]
+  }
+  else {
+    const contains = f.param(`%${escapeLike(q)}%`)
+    anywhere = INSTRUMENT_CONTAINS_COLUMNS.map(c => likeCondition(col(c), contains))
+  }
+  f.sql(`(${[...anywhere, ...starts].join(' OR ')})`)
+}
 
 /** The filter of an instrument list (where + bound parameters). */
 export function instrumentFilter(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): ListFilter {
@@ -27,15 +66,20 @@ export function instrumentFilter(o: Omit<InstrumentListOptions, 'page' | 'pageSi
   if (o.status) f.add({ status: o.status })
   if (o.kind) f.add({ kind: o.kind })
   if (o.dueBefore) f.add({ nextDueDate: { [Op.lt]: o.dueBefore } })
-  if (o.q) f.text('Instrument', INSTRUMENT_SEARCH_COLUMNS, o.q)
+  if (o.q) addSearch(f, o.q)
   return f
+}
+
+/** What the total depends on besides the table: every filter field (not the page or the order). */
+export function instrumentFilterKey(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): string {
+  return JSON.stringify([o.archived ?? 'false', o.organizationId ?? null, o.status ?? null, o.kind ?? null, o.dueBefore ?? null, o.q ?? null])
 }
 
 /**
  * ORDER BY the sort column, then id. On PostgreSQL, a text search sorted by one of the searched
  * columns orders by `lower(column)` instead (the same order under the database's case-insensitive
  * collation): no index gives that order, so the planner finds the matches through the search's
- * `lower(…)` indexes and sorts those few, rather than walking the sort column's index past every
+ * indexes and sorts those few, rather than walking the sort column's index past every
  * row that sorts before the first match.
  */
 export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir'], searching = false): Order {
@@ -46,20 +90,118 @@ export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: Instru
   return [[sort, d], ['id', d]]
 }
 
+/** Totals per filter, kept while no instrument changes (see the module's note). */
+const totals = new CountCache('instruments')
+
+/** The number of instruments matching the filter: cached per filter against the change counter. */
+export function countInstruments(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): Promise<number> {
+  return totals.get(instrumentFilterKey(o), () => Instrument.count(instrumentFilter(o).options()))
+}
+
+/** The ids of one page, in order. */
+async function pageIds(o: InstrumentListOptions): Promise<number[]> {
+  const filter = instrumentFilter(o).options()
+  const page = await Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir, !!o.q), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true })
+  return page.map(r => r.id)
+}
+
 /**
- * One page of instruments and the total matching, for the list route and the benchmark.
- * The page is found as ids first (an index-only scan when an index covers the filter and the
- * sort, which keeps deep pages cheap), then those rows are read by primary key.
+ * One page of instruments (model instances) and the total matching. The page is found as ids first
+ * (an index-only scan when an index covers the filter and the sort, which keeps deep pages cheap),
+ * then those rows are read by primary key. The list route uses the lighter {@link queryInstrumentPage}.
  */
 export async function queryInstruments(o: InstrumentListOptions): Promise<{ rows: Instrument[], total: number }> {
-  const filter = instrumentFilter(o).options()
-  const [total, page] = await Promise.all([
-    Instrument.count(filter),
-    Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir, !!o.q), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true }),
-  ])
-  const ids = page.map(r => r.id)
+  const [total, ids] = await Promise.all([countInstruments(o), pageIds(o)])
   if (!ids.length) return { rows: [], total }
   const found = await Instrument.findAll({ where: { id: ids } })
   const byId = new Map(found.map(r => [r.id, r]))
   return { rows: ids.map(id => byId.get(id)).filter((r): r is Instrument => !!r), total }
+}
+
+/** An instrument as the list reads it: plain values, with the names the list shows. */
+export interface InstrumentListRow {
+  id: number
+  organizationId: number
+  organizationName: string | null
+  serial: string
+  assetTag: string | null
+  maker: string
+  model: string
+  kind: InstrumentKind
+  bandLambda1Um: number | null
+  bandLambda2Um: number | null
+  spectralResponseId: number | null
+  spectralResponseName: string | null
+  band2Lambda1Um: number | null
+  band2Lambda2Um: number | null
+  band2SpectralResponseId: number | null
+  band2SpectralResponseName: string | null
+  emissivityRatioSetting: number | null
+  distanceToSpot: number | null
+  rangeMinK: number
+  rangeMaxK: number
+  defaultEmissivity: number
+  resolutionK: number
+  accuracy: AccuracySpec
+  calibrationIntervalMonths: number
+  status: InstrumentStatus
+  nextDueDate: string | null
+  photoUploadId: number | null
+  notes: string | null
+  archived: boolean
+  version: number
+  /** ISO 8601, UTC. */
+  createdAt: string
+  updatedAt: string
+}
+
+const LIST_COLUMNS = ['id', 'organizationId', 'serial', 'assetTag', 'maker', 'model', 'kind', 'bandLambda1Um', 'bandLambda2Um', 'spectralResponseId',
+  'band2Lambda1Um', 'band2Lambda2Um', 'band2SpectralResponseId', 'emissivityRatioSetting', 'distanceToSpot', 'rangeMinK', 'rangeMaxK', 'defaultEmissivity', 'resolutionK', 'accuracy', 'calibrationIntervalMonths', 'status', 'nextDueDate',
+  'photoUploadId', 'notes', 'archived', 'version', 'createdAt', 'updatedAt'] as const
+
+/** A stored timestamp as ISO 8601: a Date (PostgreSQL) or SQLite's text as Sequelize writes it ('YYYY-MM-DD HH:MM:SS.SSS +00:00'). */
+export function isoTimestamp(v: unknown): string {
+  if (v instanceof Date) return v.toISOString()
+  const s = String(v)
+  const m = /^(\d{4}-\d\d-\d\d) (\d\d:\d\d:\d\d(?:\.\d+)?) \+00:00$/.exec(s)
+  return m ? new Date(`${m[1]}T${m[2]}Z`).toISOString() : new Date(s).toISOString()
+}
+
+type RawListRow = Record<(typeof LIST_COLUMNS)[number] | 'organizationName' | 'spectralResponseName' | 'band2SpectralResponseName', unknown>
+
+/** A row of the list's SQL as plain values, the same on both engines. */
+function listRow(r: RawListRow): InstrumentListRow {
+  return {
+    ...(r as unknown as InstrumentListRow),
+    accuracy: (typeof r.accuracy === 'string' ? JSON.parse(r.accuracy) : r.accuracy) as AccuracySpec,
+    archived: !!r.archived,
+    createdAt: isoTimestamp(r.createdAt),
+    updatedAt: isoTimestamp(r.updatedAt),
+  }
+}
+
+/** Rows by id (with organization and both bands' responsivity names) in one query, in the order of `ids`. */
+export async function instrumentListRows(ids: readonly number[]): Promise<InstrumentListRow[]> {
+  if (!ids.length) return []
+  const rows = await sequelize.query<RawListRow>(
+    `SELECT ${LIST_COLUMNS.map(c => `i."${c}"`).join(', ')}, o.name AS "organizationName", s.name AS "spectralResponseName", s2.name AS "band2SpectralResponseName"
+       FROM instruments i
+       LEFT JOIN organizations o ON o.id = i."organizationId"
+       LEFT JOIN spectral_responses s ON s.id = i."spectralResponseId"
+       LEFT JOIN spectral_responses s2 ON s2.id = i."band2SpectralResponseId"
+      WHERE i.id IN (:ids)`,
+    { type: QueryTypes.SELECT, replacements: { ids } },
+  )
+  const byId = new Map(rows.map(r => [Number(r.id), r]))
+  return ids.map(id => byId.get(id)).filter((r): r is RawListRow => !!r).map(listRow)
+}
+
+/**
+ * One page of instruments as plain rows and the total matching: the page's ids, then its rows with
+ * names joined in (two queries), and the total from the per-filter cache (a COUNT only when the
+ * filter is new or an instrument changed since).
+ */
+export async function queryInstrumentPage(o: InstrumentListOptions): Promise<{ rows: InstrumentListRow[], total: number }> {
+  const [total, ids] = await Promise.all([countInstruments(o), pageIds(o)])
+  return { rows: await instrumentListRows(ids), total }
 }

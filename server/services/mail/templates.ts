@@ -68,7 +68,21 @@ function htmlPage(lab: LabIdentity, body: string, footer: string): string {
 </body></html>`
 }
 
+// A message per contact repeats its group's lines: each list is rendered once (kept while the list lives).
+const renderedHtml = new WeakMap<ReminderLine[], Map<string, string>>()
+const renderedText = new WeakMap<ReminderLine[], string>()
+
 function linesTableHtml(lines: ReminderLine[], columns: [string, string, string]): string {
+  const key = columns.join('\u0000')
+  const hit = renderedHtml.get(lines)?.get(key)
+  if (hit !== undefined) return hit
+  const html = renderLinesTableHtml(lines, columns)
+  if (!renderedHtml.has(lines)) renderedHtml.set(lines, new Map())
+  renderedHtml.get(lines)!.set(key, html)
+  return html
+}
+
+function renderLinesTableHtml(lines: ReminderLine[], columns: [string, string, string]): string {
   const th = (s: string) => `<th align="left" style="padding:6px 8px;border-bottom:2px solid #e4ddd3;font-size:13px;color:${MUTED}">${s}</th>`
   const td = (s: string, extra = '') => `<td style="padding:6px 8px;border-bottom:1px solid #efe9e1;font-size:14px;${extra}">${s}</td>`
   const rows = lines.map(l => `<tr>${td(escapeHtml(l.label), 'font-weight:bold')}${td(escapeHtml(l.detail))}${td(`${escapeHtml(l.dueDate)}<br><span style="color:${l.overdue ? '#b42318' : MUTED};font-size:12px">${escapeHtml(l.dueInWords)}</span>`)}</tr>`).join('')
@@ -77,6 +91,14 @@ function linesTableHtml(lines: ReminderLine[], columns: [string, string, string]
 }
 
 function linesText(lines: ReminderLine[]): string {
+  const hit = renderedText.get(lines)
+  if (hit !== undefined) return hit
+  const text = renderLinesText(lines)
+  renderedText.set(lines, text)
+  return text
+}
+
+function renderLinesText(lines: ReminderLine[]): string {
   return lines.map(l => `  - ${l.label} — ${l.detail} — due ${l.dueDate} (${l.dueInWords})`).join('\n')
 }
 

@@ -14,14 +14,15 @@
  * - customers with overdue invoices: weekly, one message per organization
  *   (server/services/billing/overdue.ts).
  *
- * Idempotent: an organization's log rows and its outbox rows are written in one transaction, the
- * log key (itemType, itemId, dueDate, milestone) and the outbox dedupeKey are unique, so running
- * twice sends nothing new and two instances cannot both send — the later transaction fails on the
- * unique key, rolls back and is counted as skipped. A milestone reached on a day the job did not
+ * Idempotent: all groups (an organization's log rows and outbox rows; the lab's) are written in
+ * one transaction, each group under its own savepoint; the log key (itemType, itemId, dueDate,
+ * milestone) and the outbox dedupeKey are unique, so running twice sends nothing new and two
+ * instances cannot both send — a group the other got to first fails on the unique key, rolls back
+ * to its savepoint and is counted as skipped. A milestone reached on a day the job did not
  * run is still unlogged, and the next run sends it. No Nuxt or Nitro imports.
  */
 import crypto from 'node:crypto'
-import { Op, QueryTypes, UniqueConstraintError } from 'sequelize'
+import { Op, QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize'
 import {
   daysBetween,
   dueInWords,
@@ -56,7 +57,6 @@ import { planInvoiceGroups } from '#server/services/billing/overdue'
 
 /** Reference equipment is reported this many days before its due date. */
 export const EQUIPMENT_WINDOW_DAYS = 30
-const LOG_CHUNK = 200
 const DETAIL_CHUNK = 900
 
 function rulesOf(row: MailSettings): MilestoneRules {
@@ -127,7 +127,17 @@ async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: La
         AND EXISTS (SELECT 1 FROM contacts c WHERE c."organizationId" = i."organizationId" AND c.active = TRUE AND c."receivesReminders" = TRUE)`,
     { type: QueryTypes.SELECT, replacements: { horizon } },
   )
-  const milestoneOf = milestonesOn(today, rules)
+  // due dates repeat across a large register: each one's milestone is worked out once
+  const milestoneOfDate = milestonesOn(today, rules)
+  const milestones = new Map<string, ReturnType<typeof milestoneOfDate>>()
+  const milestoneOf = (due: string) => {
+    let m = milestones.get(due)
+    if (m === undefined) {
+      m = milestoneOfDate(due)
+      milestones.set(due, m)
+    }
+    return m
+  }
   const due: { row: CandidateRow, key: string, daysToDue: number }[] = []
   for (const c of candidates) {
     const m = milestoneOf(c.nextDueDate)
@@ -319,48 +329,74 @@ export interface ScanResult {
   skipped: number
 }
 
-/** Write one group: its messages, then its log rows, in one transaction. False when another run got there first. */
-async function writeGroup(group: PlannedGroup, today: IsoDate): Promise<boolean> {
-  try {
-    await writeTransaction(async (t) => {
-      let first: number | null = null
-      for (const m of group.messages) {
-        const row = await queueMail(t, m)
-        first ??= row.id
-      }
-      // Plain multi-row INSERTs: a first run on a large register logs tens of thousands of rows,
-      // and model instances would cost more than the scan itself.
-      // Formatted once, as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00'); PostgreSQL reads it as a timestamptz.
-      const createdAt = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')
-      for (let i = 0; i < group.items.length; i += LOG_CHUNK) {
-        const chunk = group.items.slice(i, i + LOG_CHUNK)
-        await sequelize.query(
-          `INSERT INTO reminder_logs ("itemType", "itemId", "dueDate", milestone, "sentOn", "outboxMessageId", "createdAt") VALUES ${chunk.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
-          { replacements: chunk.flatMap(item => [item.itemType, item.itemId, item.dueDate, item.milestone, today, first, createdAt]), transaction: t, type: QueryTypes.INSERT },
-        )
-      }
-    })
-    return true
-  }
-  catch (err) {
-    if (err instanceof UniqueConstraintError) return false
-    throw err
-  }
+/**
+ * A group's log rows in one statement: the rows travel as one JSON array parameter and the database
+ * unpacks it (SQLite `json_each`, PostgreSQL `jsonb_array_elements`), so tens of thousands of rows cost
+ * one parse and one round trip instead of hundreds of multi-row INSERTs.
+ */
+async function insertLogRows(t: Transaction, items: PlannedItem[], today: IsoDate, outboxMessageId: number | null): Promise<void> {
+  if (!items.length) return
+  const rows = JSON.stringify(items.map(i => [i.itemType, i.itemId, i.dueDate, i.milestone]))
+  const columns = '"itemType", "itemId", "dueDate", milestone, "sentOn", "outboxMessageId", "createdAt"'
+  const sql = onPostgres()
+    ? `INSERT INTO reminder_logs (${columns})
+       SELECT r->>0, (r->>1)::integer, (r->>2)::date, r->>3, CAST(:today AS date), CAST(:outbox AS integer), CAST(:createdAt AS timestamptz)
+         FROM jsonb_array_elements(CAST(:rows AS jsonb)) AS r`
+    : `INSERT INTO reminder_logs (${columns})
+       SELECT r.value->>0, r.value->>1, r.value->>2, r.value->>3, :today, :outbox, :createdAt FROM json_each(:rows) AS r`
+  // Formatted as Sequelize stores dates in SQLite ('YYYY-MM-DD HH:MM:SS.SSS +00:00'); PostgreSQL reads it as a timestamptz.
+  const createdAt = new Date().toISOString().replace('T', ' ').replace('Z', ' +00:00')
+  await sequelize.query(sql, { replacements: { rows, today, outbox: outboxMessageId, createdAt }, transaction: t, type: QueryTypes.INSERT })
 }
 
-/** Plan and write the reminders for the lab-local date of `now` (or `today`). */
-export async function runReminderScan(opts: { today?: IsoDate, now?: Date } = {}): Promise<ScanResult> {
-  const plan = await planReminders(opts)
-  const result: ScanResult = { today: plan.today, queued: 0, logged: 0, skipped: 0 }
-  for (const group of plan.groups) {
-    if (await writeGroup(group, plan.today)) {
+/** One group's messages, then its log rows, in the caller's transaction. */
+async function writeGroupIn(t: Transaction, group: PlannedGroup, today: IsoDate): Promise<void> {
+  let first: number | null = null
+  for (const m of group.messages) {
+    const row = await queueMail(t, m)
+    first ??= row.id
+  }
+  await insertLogRows(t, group.items, today, first)
+}
+
+/**
+ * Write every group in one transaction (one commit for the whole scan). Each group is written
+ * under its own savepoint: a group that another run wrote first (its log key or outbox dedupeKey is
+ * taken: a unique clash) is rolled back to that savepoint and counted as skipped, the others commit.
+ */
+async function writeGroups(groups: PlannedGroup[], today: IsoDate, result: ScanResult): Promise<void> {
+  if (!groups.length) return
+  const written = await writeTransaction(async (t) => {
+    const ok: boolean[] = []
+    for (const group of groups) {
+      try {
+        // a nested transaction is a savepoint in `t`
+        await sequelize.transaction({ transaction: t }, sp => writeGroupIn(sp, group, today))
+        ok.push(true)
+      }
+      catch (err) {
+        if (!(err instanceof UniqueConstraintError)) throw err
+        ok.push(false)
+      }
+    }
+    return ok
+  })
+  groups.forEach((group, i) => {
+    if (written[i]) {
       result.queued += group.messages.length
       result.logged += group.items.length
     }
     else {
       result.skipped++
     }
-  }
+  })
+}
+
+/** Plan and write the reminders for the lab-local date of `now` (or `today`). */
+export async function runReminderScan(opts: { today?: IsoDate, now?: Date } = {}): Promise<ScanResult> {
+  const plan = await planReminders(opts)
+  const result: ScanResult = { today: plan.today, queued: 0, logged: 0, skipped: 0 }
+  await writeGroups(plan.groups, plan.today, result)
   return result
 }
 

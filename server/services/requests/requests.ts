@@ -222,6 +222,10 @@ export async function acceptRequestIn(t: Transaction, user: SessionUser, id: num
       emissivitySetting: terms.emissivitySetting,
       reflectedTemperatureK: null,
       instrumentTemperatureK: null,
+      // a ratio pyrometer's ratio setting and an imager's settings are entered as used in the run
+      emissivityRatioSetting: null,
+      imagerSettings: null,
+      calibrationEquation: null,
       ambientInstrumentId: null,
       adjusted: false,
       internalNotes: null,

@@ -10,13 +10,15 @@
  * it came from.
  */
 import type { Transaction } from 'sequelize'
-import { COMPUTATION_CONDITIONS, CONDITION_LABELS, type PointStage } from '#shared/calibration/constants'
+import { computationConditionsFor, RUN_CONDITION_LABELS, type PointStage } from '#shared/calibration/constants'
 import { computePoint } from '#shared/calibration/compute'
 import { emissivityForBand, spotFit, spotProblem, type BandEmissivity } from '#shared/calibration/setup'
+import { EQUATION_FIELD, equationTable } from '#shared/calibration/equation'
+import { EngineInputError } from '#shared/radiometry/errors'
 import { kelvinToCelsiusText } from '#shared/format'
-import { CERTIFIED_BASIS_LABELS, SOURCE_KIND_LABELS } from '#shared/registers/constants'
-import type { PointCreateInput } from '#shared/schemas/run'
-import type { BandInput, EquipmentLine, PointComputationInput, PointResult, ReferenceBasisInput, RunAgreementDTO } from '#shared/types'
+import { CERTIFIED_BASIS_LABELS, EQUATION_KINDS, INSTRUMENT_KIND_LABELS, isImagerKind, isRatioKind, SOURCE_KIND_LABELS } from '#shared/registers/constants'
+import { CENTRE_ROI, type PointCreateInput, type RoiFramesInput, type RoiInput } from '#shared/schemas/run'
+import type { BandInput, EquipmentLine, PointComputationInput, PointResult, ReferenceBasisInput, RunAgreementDTO, RunEquationDTO } from '#shared/types'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import type { CalibrationRun } from '#server/models/CalibrationRun'
 import { EquipmentCalibration } from '#server/models/EquipmentCalibration'
@@ -28,13 +30,20 @@ import { SpectralResponse } from '#server/models/SpectralResponse'
 import { engine, invalidInput } from '#server/utils/errors'
 import { assertUsableOn } from '#server/services/equipment/usability'
 import { agreementOf } from '#server/services/requests/agreement'
-import { instrumentBand } from './dto'
+import { instrumentBand, instrumentBand2 } from './dto'
 
 /** What every point of a run is computed with. */
 export interface RunContext {
   instrument: Instrument
   table: SpectralResponse | null
   band: BandInput
+  /** A ratio pyrometer's band 2 (null for other kinds, or while it is not recorded) and its table. */
+  band2: BandInput | null
+  table2: SpectralResponse | null
+  /** The instrument is a ratio (two-colour) pyrometer: its points use the two-colour model. */
+  ratio: boolean
+  /** The instrument is a thermal imager: its points record regions of interest. */
+  imager: boolean
   procedureVersion: ProcedureVersion
   /** The terms agreed with the customer (their decision rule and specification prevail), or null. */
   agreement: RunAgreementDTO | null
@@ -48,7 +57,19 @@ export async function loadRunContext(t: Transaction | undefined, instrumentId: n
   if (!band) invalidInput({ instrumentId: 'The instrument has neither a spectral band nor a responsivity table' })
   const procedureVersion = await ProcedureVersion.findByPk(procedureVersionId, { transaction: t })
   if (!procedureVersion) invalidInput({ procedureVersionId: 'No procedure version with this id' })
-  return { instrument, table, band, procedureVersion, agreement: await agreementOf(requestId, t) }
+  const ratio = isRatioKind(instrument.kind)
+  const table2 = ratio && instrument.band2SpectralResponseId ? await SpectralResponse.findByPk(instrument.band2SpectralResponseId, { transaction: t }) : null
+  return {
+    instrument,
+    table,
+    band,
+    band2: ratio ? instrumentBand2(instrument, table2) : null,
+    table2,
+    ratio,
+    imager: isImagerKind(instrument.kind),
+    procedureVersion,
+    agreement: await agreementOf(requestId, t),
+  }
 }
 
 /** The observations of a point (what the technician entered). */
@@ -60,6 +81,10 @@ export interface Observation {
   referenceInstrumentId: number | null
   referenceReadingK: number | null
   readingsK: number[]
+  /** A thermal imager's regions of interest (the centre's readings are `readingsK`); null for other kinds. */
+  rois: RoiInput[] | null
+  /** A thermal imager's frame series for the NETD; null when none. */
+  netdFrames: RoiFramesInput[] | null
 }
 
 export function observationOf(p: RunPoint): Observation {
@@ -71,6 +96,8 @@ export function observationOf(p: RunPoint): Observation {
     referenceInstrumentId: p.referenceInstrumentId ?? null,
     referenceReadingK: p.referenceReadingK ?? null,
     readingsK: p.readingsK,
+    rois: p.rois ?? null,
+    netdFrames: p.netdFrames ?? null,
   }
 }
 
@@ -83,14 +110,19 @@ export function observationFrom(input: Omit<PointCreateInput, 'reason'>): Observ
     referenceInstrumentId: input.referenceInstrumentId ?? null,
     referenceReadingK: input.referenceReadingK ?? null,
     readingsK: input.readingsK,
+    rois: input.rois ?? null,
+    netdFrames: input.netdFrames ?? null,
   }
 }
 
-/** The measured conditions the reading model needs that the run header does not hold yet (400 naming them). */
-export function assertComputable(run: CalibrationRun): void {
-  const missing = COMPUTATION_CONDITIONS.filter(f => run.get(f) === null || run.get(f) === undefined)
+/**
+ * The measured conditions the model needs that the run header does not hold yet (400 naming them):
+ * the reading model's, or a ratio pyrometer's (the reflected temperature and its ratio setting).
+ */
+export function assertComputable(run: CalibrationRun, ratio = false): void {
+  const missing = computationConditionsFor(ratio).filter(f => run.get(f) === null || run.get(f) === undefined)
   if (missing.length) {
-    invalidInput(Object.fromEntries(missing.map(f => [f, `Enter the ${CONDITION_LABELS[f].toLowerCase()} measured for this run before adding points: the expected reading depends on it`])))
+    invalidInput(Object.fromEntries(missing.map(f => [f, `Enter the ${RUN_CONDITION_LABELS[f].toLowerCase()} measured for this run before adding points: the expected reading depends on it`])))
   }
 }
 
@@ -135,11 +167,19 @@ function emissivityStatement(source: BlackbodySource) {
   }
 }
 
-/** The source's emissivity in the instrument's band; 400 on `sourceId` naming the numbers when none is recorded for it. */
-export function bandEmissivity(source: BlackbodySource, band: BandInput): BandEmissivity {
+/**
+ * The source's emissivity in the instrument's band (for a ratio pyrometer, in its band 1 or 2); 400 on
+ * `sourceId` naming the numbers when none is recorded for it.
+ */
+export function bandEmissivity(source: BlackbodySource, band: BandInput, which: 1 | 2 | null = null): BandEmissivity {
   const e = emissivityForBand(emissivityStatement(source), band, source.assetTag)
-  if ('problem' in e) invalidInput({ sourceId: e.problem })
+  if ('problem' in e) invalidInput({ sourceId: which ? inBand(e.problem, which) : e.problem })
   return e
+}
+
+/** A refusal of setup.ts about "the instrument's band", said of a ratio pyrometer's band 1 or 2. */
+function inBand(problem: string, which: 1 | 2): string {
+  return problem.replace('the instrument’s band', `the ratio pyrometer’s band ${which}`)
 }
 
 /**
@@ -149,7 +189,7 @@ export function bandEmissivity(source: BlackbodySource, band: BandInput): BandEm
  * its uniformity and stability (half-widths of rectangular distributions, as the register's form states
  * them: "half-width of the variation"). Each names the register entry and certificate it came from.
  */
-export function equipmentLinesFor(source: BlackbodySource, used: UsedEquipment, basis: ReferenceBasisInput | null, emissivity: BandEmissivity): EquipmentLine[] {
+export function equipmentLinesFor(source: BlackbodySource, used: UsedEquipment, basis: ReferenceBasisInput | null, emissivity: BandEmissivity, emissivity2: BandEmissivity | null = null): EquipmentLine[] {
   const tag = source.assetTag
   const radiance = basis?.kind === 'radiance-temperature'
   const onValue = radiance ? 'radianceTemperature' as const : 'sourceTemperature' as const
@@ -164,7 +204,14 @@ export function equipmentLinesFor(source: BlackbodySource, used: UsedEquipment, 
     if (U == null || k == null) invalidInput({ sourceId: `${tag}’s certified expanded uncertainty U and its k are not recorded: enter them from its certificate (the procedure takes the source’s uncertainty from the register)` })
     lines.push({ name: `Certified value of ${tag} (${CERTIFIED_BASIS_LABELS[basis?.kind ?? source.certifiedBasis].toLowerCase()})`, type: 'B', distribution: 'normal', value: U, coverageFactor: k, unit: 'K', input: onValue, dof: null, origin: originOf(tag, used.sourceCertificate, `certified data (U = ${U} K, k = ${k})`) })
   }
-  lines.push({ name: `Emissivity of ${tag} in the instrument’s band`, type: 'B', distribution: 'standard', value: emissivity.standardUncertainty, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity', dof: null, origin: originOf(tag, used.sourceCertificate, `register: ${emissivity.text}`) })
+  if (emissivity2) {
+    // a ratio pyrometer: ε in each band, taken as independent (for a grey source the two errors would largely cancel in the ratio, so this is the larger budget)
+    lines.push({ name: `Emissivity of ${tag} in band 1`, type: 'B', distribution: 'standard', value: emissivity.standardUncertainty, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity', dof: null, origin: originOf(tag, used.sourceCertificate, `register: ${emissivity.text}`) })
+    lines.push({ name: `Emissivity of ${tag} in band 2`, type: 'B', distribution: 'standard', value: emissivity2.standardUncertainty, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity2', dof: null, origin: originOf(tag, used.sourceCertificate, `register: ${emissivity2.text}`) })
+  }
+  else {
+    lines.push({ name: `Emissivity of ${tag} in the instrument’s band`, type: 'B', distribution: 'standard', value: emissivity.standardUncertainty, coverageFactor: null, unit: 'emissivity', input: 'sourceEmissivity', dof: null, origin: originOf(tag, used.sourceCertificate, `register: ${emissivity.text}`) })
+  }
   const onSource = used.reference ? 'sourceTemperature' as const : onValue
   lines.push({ name: `Uniformity of ${tag}`, type: 'B', distribution: 'rectangular', value: source.uniformityK, coverageFactor: null, unit: 'K', input: onSource, dof: null, origin: originOf(tag, used.sourceCertificate, `register (uniformity ± ${source.uniformityK} K)`) })
   lines.push({ name: `Stability of ${tag}`, type: 'B', distribution: 'rectangular', value: source.stabilityK, coverageFactor: null, unit: 'K', input: onSource, dof: null, origin: originOf(tag, used.sourceCertificate, `register (stability ± ${source.stabilityK} K)`) })
@@ -183,11 +230,18 @@ function spotOf(run: CalibrationRun, ctx: RunContext, source: BlackbodySource) {
 }
 
 /** What the setup checks found, for the budget's notes (the emissivity used; the spot against the aperture). */
-function setupNotes(run: CalibrationRun, ctx: RunContext, source: BlackbodySource, emissivity: BandEmissivity): string[] {
+function setupNotes(run: CalibrationRun, ctx: RunContext, source: BlackbodySource, emissivity: BandEmissivity, emissivity2: BandEmissivity | null = null): string[] {
   const fit = spotOf(run, ctx, source)
   const spot = fit.spotDiameterMm === null
     ? `The instrument’s spot was not checked against ${source.assetTag}’s ${source.apertureMm} mm aperture: ${ctx.instrument.distanceToSpot == null ? 'the instrument states no distance-to-spot ratio and the run no spot diameter' : 'the measuring distance is not entered'}.`
     : `Spot ${fit.spotDiameterMm.toFixed(1)} mm (${fit.how}) within ${source.assetTag}’s ${source.apertureMm} mm aperture (${fit.margin === 1 ? 'the procedure states no margin: the spot must fit' : `procedure margin ${fit.margin}: at least ${fit.requiredApertureMm!.toFixed(1)} mm`}).`
+  if (emissivity2) {
+    return [
+      `Source emissivity in band 1: ${emissivity.text}; in band 2: ${emissivity2.text} (${source.assetTag}).`,
+      'The uncertainties of the source emissivity in the two bands are taken as independent: for a grey source their errors would largely cancel in the ratio, so the budget is the larger one.',
+      spot,
+    ]
+  }
   return [`Source emissivity ${emissivity.text} (${source.assetTag}).`, spot]
 }
 
@@ -206,10 +260,13 @@ export function computationInput(run: CalibrationRun, ctx: RunContext, obs: Obse
   const viaSource = obs.referenceInstrumentId == null
   const basis = viaSource ? sourceBasis(source) : null
   const emissivity = bandEmissivity(source, ctx.band)
+  const band2 = ctx.ratio ? ctx.band2 : null
+  if (ctx.ratio && !band2) invalidInput({ instrumentId: ratioBandMissing(ctx.instrument) })
+  const emissivity2 = band2 ? bandEmissivity(source, band2, 2) : null
   let equipmentLines: EquipmentLine[] | undefined
   if (pv.budgetFromEquipment) {
     if (!used) throw new Error('computationInput: the procedure takes the equipment’s budget lines; pass the equipment used')
-    equipmentLines = equipmentLinesFor(source, used, basis, emissivity)
+    equipmentLines = equipmentLinesFor(source, used, basis, emissivity, emissivity2)
   }
   return {
     band: ctx.band,
@@ -218,20 +275,28 @@ export function computationInput(run: CalibrationRun, ctx: RunContext, obs: Obse
       : { kind: 'reference-thermometer', referenceReadingK: obs.referenceReadingK! },
     sourceEmissivity: emissivity.emissivity,
     reflectedTemperatureK: run.reflectedTemperatureK!,
-    instrumentTemperatureK: run.instrumentTemperatureK!,
-    emissivitySetting: run.emissivitySetting!,
+    // a ratio pyrometer's model has neither: NaN (stored as null) when they were not entered
+    instrumentTemperatureK: run.instrumentTemperatureK ?? Number.NaN,
+    emissivitySetting: run.emissivitySetting ?? Number.NaN,
     readingsK: [...obs.readingsK],
     resolutionK: ctx.instrument.resolutionK,
     template: pv.template,
     templateOrigin: procedureOrigin(pv),
     ...(equipmentLines ? { equipmentLines } : {}),
     ...(pv.correlations?.length ? { correlations: pv.correlations } : {}),
-    setupNotes: setupNotes(run, ctx, source, emissivity),
+    setupNotes: setupNotes(run, ctx, source, emissivity, emissivity2),
     cmc: pv.cmc,
     accuracy: agreed?.specification ?? ctx.instrument.accuracy,
     rule,
     guardBandFactor: rule === 'simple-acceptance' ? null : (agreed ? agreed.guardBandFactor : pv.guardBandFactor) ?? 1,
+    ...(band2 && emissivity2 ? { ratio: { band2, sourceEmissivity2: emissivity2.emissivity, emissivityRatioSetting: run.emissivityRatioSetting! } } : {}),
+    ...(ctx.imager && obs.rois ? { imager: { rois: obs.rois, centreRoi: CENTRE_ROI, netdFrames: obs.netdFrames } } : {}),
   }
+}
+
+/** Why a ratio pyrometer's point cannot be computed without its second band. */
+function ratioBandMissing(i: Instrument): string {
+  return `${i.assetTag ?? i.serial} is a ratio pyrometer, and its second band is not recorded: enter band 2 and its emissivity-ratio setting on the instrument (the two-colour model needs both bands)`
 }
 
 export function pointColumns(obs: Observation, result: PointResult) {
@@ -249,9 +314,12 @@ export function pointColumns(obs: Observation, result: PointResult) {
 
 /** A point as the revision record keeps it: its number in the run, observations and key results. */
 export function pointRecord(p: RunPoint) {
+  const { rois, netdFrames, ...obs } = observationOf(p)
   return {
     point: p.seq,
-    ...observationOf(p),
+    ...obs,
+    ...(rois ? { rois } : {}),
+    ...(netdFrames ? { netdFrames } : {}),
     referenceTemperatureK: p.referenceTemperatureK,
     expectedReadingK: p.expectedReadingK,
     errorK: p.errorK,
@@ -331,10 +399,15 @@ export async function setupProblem(run: CalibrationRun, ctx: RunContext, eq: Equ
   if (!a.sourceKinds.includes(s.row.kind)) {
     return { field: 'sourceId', message: `${s.row.assetTag} is a ${SOURCE_KIND_LABELS[s.row.kind].toLowerCase()}; procedure ${pv.name} is for ${a.sourceKinds.map(k => SOURCE_KIND_LABELS[k].toLowerCase()).join(' or ')} sources` }
   }
+  const kindProblem = kindOfPointProblem(ctx, obs)
+  if (kindProblem) return kindProblem
   const band = ctx.band
-  const [lo, hi] = band.kind === 'rectangular' ? [band.lambda1Um, band.lambda2Um] : [band.points[0]![0], band.points[band.points.length - 1]![0]]
-  if (lo < a.bandMinUm || hi > a.bandMaxUm) {
-    return { field: 'procedureVersionId', message: `The instrument's band (${lo}–${hi} µm) is outside the ${a.bandMinUm}–${a.bandMaxUm} µm that procedure ${pv.name} covers` }
+  const edges = (b: BandInput) => (b.kind === 'rectangular' ? [b.lambda1Um, b.lambda2Um] : [b.points[0]![0], b.points[b.points.length - 1]![0]])
+  const [lo, hi1] = edges(band)
+  // a ratio pyrometer's bands together: band 1's start to band 2's end
+  const hi = ctx.band2 ? edges(ctx.band2)[1]! : hi1!
+  if (lo! < a.bandMinUm || hi > a.bandMaxUm) {
+    return { field: 'procedureVersionId', message: `The instrument's band${ctx.band2 ? 's' : ''} (${lo}–${hi} µm) ${ctx.band2 ? 'are' : 'is'} outside the ${a.bandMinUm}–${a.bandMaxUm} µm that procedure ${pv.name} covers` }
   }
   if (obs.setPointK < a.minK || obs.setPointK > a.maxK) {
     return { field: 'setPointK', message: `${kelvinToCelsiusText(obs.setPointK)} is outside procedure ${pv.name}'s range (${kelvinToCelsiusText(a.minK)} to ${kelvinToCelsiusText(a.maxK)})` }
@@ -360,7 +433,16 @@ export async function setupProblem(run: CalibrationRun, ctx: RunContext, eq: Equ
 export function fitProblem(run: CalibrationRun, ctx: RunContext, source: BlackbodySource, obs: Pick<Observation, 'referenceInstrumentId'>): SetupProblem | null {
   const pv = ctx.procedureVersion
   const e = emissivityForBand(emissivityStatement(source), ctx.band, source.assetTag)
-  if ('problem' in e) return { field: 'sourceId', message: e.problem }
+  if ('problem' in e) return { field: 'sourceId', message: ctx.ratio ? inBand(e.problem, 1) : e.problem }
+  if (ctx.ratio) {
+    // the two-colour model needs the source's emissivity in BOTH bands
+    if (!ctx.band2) return { field: 'instrumentId', message: ratioBandMissing(ctx.instrument) }
+    const e2 = emissivityForBand(emissivityStatement(source), ctx.band2, source.assetTag)
+    if ('problem' in e2) return { field: 'sourceId', message: inBand(e2.problem, 2) }
+    if (obs.referenceInstrumentId == null && source.certifiedBasis === 'radiance-temperature') {
+      return { field: 'sourceId', message: `${source.assetTag}’s certificate states radiance temperatures in one band; a ratio pyrometer is calibrated against the source’s temperature (a cavity or surface temperature) or a reference thermometer in the source` }
+    }
+  }
   const fit = spotOf(run, ctx, source)
   const spot = spotProblem(fit, source.apertureMm, source.assetTag, `${pv.name} (version ${pv.versionNumber})`)
   if (spot) return { field: 'sourceId', message: spot }
@@ -383,6 +465,20 @@ export function fitProblem(run: CalibrationRun, ctx: RunContext, source: Blackbo
   return null
 }
 
+/**
+ * What a point must hold for its instrument's kind: a thermal imager's point records its readings in
+ * regions of interest (the centre among them); no other kind's point has any.
+ */
+function kindOfPointProblem(ctx: RunContext, obs: Pick<Observation, 'rois' | 'netdFrames'>): SetupProblem | null {
+  if (ctx.imager && !obs.rois) {
+    return { field: 'rois', message: `A thermal imager's point records its readings in regions of interest: the '${CENTRE_ROI}' region and the others across the field, each with its position and size in pixels` }
+  }
+  if (!ctx.imager && (obs.rois || obs.netdFrames)) {
+    return { field: obs.rois ? 'rois' : 'netdFrames', message: 'Only a thermal imager\'s point records regions of interest and frame series' }
+  }
+  return null
+}
+
 /** Check the setup and compute one point; 400 naming the field at fault. */
 export async function evaluateObservation(run: CalibrationRun, ctx: RunContext, eq: Equipment, obs: Observation): Promise<PointResult> {
   const problem = await setupProblem(run, ctx, eq, obs)
@@ -390,4 +486,45 @@ export async function evaluateObservation(run: CalibrationRun, ctx: RunContext, 
   const source = (await eq.source(obs.sourceId)).row!
   const used = await eq.used(obs)
   return engine(() => computePoint(computationInput(run, ctx, obs, source, used)))
+}
+
+/** The message when a run of this kind of instrument asks for a calibration equation, or null when it may. */
+export function equationKindProblem(instrument: Instrument): string | null {
+  if (EQUATION_KINDS.includes(instrument.kind)) return null
+  return `A calibration equation is stated for spot and reference pyrometers (single band); this instrument is a ${INSTRUMENT_KIND_LABELS[instrument.kind].toLowerCase()}`
+}
+
+/**
+ * The calibration equation through the run's as-left points with its table (shared/calibration/equation.ts),
+ * when the run asks for one; null when it does not. A refusal (too few points, a table temperature outside
+ * the calibrated range, a kind that has none) is returned with its field, not thrown: the run page shows it
+ * while points are still being entered; submission and the certificate refuse it ({@link assertEquation}).
+ */
+export function runEquation(run: CalibrationRun, ctx: Pick<RunContext, 'instrument' | 'band'>, points: readonly RunPoint[]): RunEquationDTO | null {
+  const settings = run.calibrationEquation
+  if (!settings) return null
+  const kind = equationKindProblem(ctx.instrument)
+  if (kind) return { fit: null, problem: { field: EQUATION_FIELD, message: kind } }
+  try {
+    const fit = equationTable({
+      band: ctx.band,
+      points: points.filter(p => !p.voidedAt).map(p => ({
+        stage: p.stage,
+        referenceTemperatureK: p.result.referenceTemperatureK,
+        meanReadingK: p.result.meanReadingK,
+        expandedUncertaintyK: p.result.budget.statedUncertaintyK,
+        // the CMC is stated at k = 2 where it replaced the computed U
+        coverageFactor: p.result.budget.cmcApplied ? 2 : p.result.budget.coverageFactor,
+      })),
+      adjusted: !!run.adjusted,
+      temperaturesK: settings.temperaturesK,
+      pointCorrelation: settings.pointCorrelation ?? 0,
+    })
+    return { fit, problem: null }
+  }
+  catch (err) {
+    if (!(err instanceof EngineInputError)) throw err
+    const message = err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message
+    return { fit: null, problem: { field: err.field, message } }
+  }
 }

@@ -43,6 +43,9 @@ export function runDTO(r: CalibrationRun, n: RunNames = {}): RunDTO {
     emissivitySetting: r.emissivitySetting,
     reflectedTemperatureK: r.reflectedTemperatureK,
     instrumentTemperatureK: r.instrumentTemperatureK,
+    emissivityRatioSetting: r.emissivityRatioSetting ?? null,
+    imagerSettings: r.imagerSettings ?? null,
+    calibrationEquation: r.calibrationEquation ?? null,
     ambientInstrumentId: r.ambientInstrumentId ?? null,
     adjusted: !!r.adjusted,
     asLeftEqualsAsFound: !r.adjusted,
@@ -79,7 +82,16 @@ export function instrumentBand(i: Instrument, table: SpectralResponse | null): B
   return null
 }
 
-export function instrumentSummary(i: Instrument, band: BandInput, table: SpectralResponse | null, organizationName: string | null): RunInstrumentSummary {
+/** A ratio pyrometer's band 2: its rectangular λ1–λ2, or its stored responsivity table; null when not recorded. */
+export function instrumentBand2(i: Instrument, table: SpectralResponse | null): BandInput | null {
+  if (i.band2Lambda1Um != null && i.band2Lambda2Um != null) return { kind: 'rectangular', lambda1Um: i.band2Lambda1Um, lambda2Um: i.band2Lambda2Um }
+  if (table) return { kind: 'tabulated', points: table.points }
+  return null
+}
+
+const labelOf = (band: BandInput, table: SpectralResponse | null) => (band.kind === 'rectangular' ? `${band.lambda1Um}–${band.lambda2Um} µm` : (table?.name ?? 'Tabulated responsivity'))
+
+export function instrumentSummary(i: Instrument, band: BandInput, table: SpectralResponse | null, organizationName: string | null, band2: { band: BandInput | null, table: SpectralResponse | null } = { band: null, table: null }): RunInstrumentSummary {
   return {
     id: i.id,
     serial: i.serial,
@@ -89,7 +101,11 @@ export function instrumentSummary(i: Instrument, band: BandInput, table: Spectra
     organizationId: i.organizationId,
     organizationName,
     band,
-    bandLabel: band.kind === 'rectangular' ? `${band.lambda1Um}–${band.lambda2Um} µm` : (table?.name ?? 'Tabulated responsivity'),
+    bandLabel: labelOf(band, table),
+    kind: i.kind,
+    band2: band2.band,
+    band2Label: band2.band ? labelOf(band2.band, band2.table) : null,
+    emissivityRatioSetting: i.emissivityRatioSetting ?? null,
     accuracy: i.accuracy,
     resolutionK: i.resolutionK,
     rangeMinK: i.rangeMinK,
@@ -112,6 +128,8 @@ export function runPointDTO(p: RunPoint, tags: { source?: string | null, referen
     sourceIndicatedK: p.sourceIndicatedK ?? null,
     referenceReadingK: p.referenceReadingK ?? null,
     readingsK: p.readingsK,
+    rois: p.rois ?? null,
+    netdFrames: p.netdFrames ?? null,
     result: p.result,
     monteCarlo: p.monteCarlo ?? null,
     voidedAt: iso(p.voidedAt),

@@ -49,8 +49,8 @@ export async function addPointsIn(t: Transaction, actor: Actor, runId: number, i
   assertEditable(run)
   const reason = requireReason(run, inputs.find(i => i.reason)?.reason)
   if (!inputs.length) return []
-  assertComputable(run)
   const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+  assertComputable(run, ctx.ratio)
   const eq = new Equipment(t, run.calibrationDate)
   const computed: { obs: Observation, result: PointResult }[] = []
   for (const [i, input] of inputs.entries()) {
@@ -92,12 +92,15 @@ export async function updatePointIn(t: Transaction, actor: Actor, runId: number,
   if (point.voidedAt) conflict(`Point ${point.seq} is void: it cannot change`)
   assertVersion(point.version, input.version)
   const reason = requireReason(run, input.reason)
-  assertComputable(run)
+  const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+  assertComputable(run, ctx.ratio)
   const { version: _v, reason: _r, ...changes } = input
-  const parsed = pointCreateSchema.safeParse({ ...observationOf(point), ...changes })
+  const { readingsK: storedReadings, ...stored } = observationOf(point)
+  // new regions of interest bring their own (centre) readings
+  const base = changes.rois !== undefined && changes.readingsK === undefined ? stored : { ...stored, readingsK: storedReadings }
+  const parsed = pointCreateSchema.safeParse({ ...base, ...changes })
   if (!parsed.success) invalidInput(fieldErrors(parsed.error))
   const obs = observationFrom(parsed.data)
-  const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
   const result = await evaluateObservation(run, ctx, new Equipment(t, run.calibrationDate), obs)
   const before = pointRecord(point)
   const full = snapshot(point, ['result'])
@@ -156,9 +159,10 @@ export async function importPointsIn(t: Transaction, actor: Actor, runId: number
   const run = await findRun(t, runId)
   assertEditable(run)
   const reason = input.commit ? requireReason(run, input.reason) : null
-  assertComputable(run)
-  const records = withCsvShape(() => readCsvRecords(input.csv, POINT_CSV_COLUMNS))
   const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+  if (ctx.imager) invalidInput({ csv: 'A thermal imager\'s points are entered with their regions of interest (position, size and readings of each), which a points CSV does not hold: enter them on the run page or through the API' })
+  assertComputable(run, ctx.ratio)
+  const records = withCsvShape(() => readCsvRecords(input.csv, POINT_CSV_COLUMNS))
   const eq = new Equipment(t, run.calibrationDate)
   const tagCache = new Map<string, number | null>()
   const idOfTag = async (kind: 'source' | 'reference', tag: string): Promise<number | null> => {

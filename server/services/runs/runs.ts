@@ -23,7 +23,7 @@ import { ListFilter } from '#server/utils/search'
 import { inTransaction } from '#server/utils/transaction'
 import { auditDTO } from '#server/services/audit/dto'
 import { procedureVersionDTO } from '#server/services/procedures/procedures'
-import { loadRunContext } from './context'
+import { loadRunContext, runEquation } from './context'
 import { instrumentSummary, runDTO, runPointDTO, runRevisionDTO, type RunNames } from './dto'
 import { addPointIn, importPointsIn, updatePointIn, voidPointIn } from './points'
 import { receiptOf, recordReceiptIn } from './receipt'
@@ -144,17 +144,18 @@ export async function runDetail(id: number): Promise<RunDetailDTO> {
   ])
   return {
     ...runDTO(run, names),
-    instrument: instrumentSummary(ctx.instrument, ctx.band, ctx.table, names.organizationName ?? null),
+    instrument: instrumentSummary(ctx.instrument, ctx.band, ctx.table, names.organizationName ?? null, { band: ctx.band2, table: ctx.table2 }),
     procedureVersion: procedureVersionDTO(ctx.procedureVersion, ctx.procedureVersion.createdBy ? userName.get(ctx.procedureVersion.createdBy) ?? null : null),
     points: await pointDTOs(points),
     revisions: revisionDTOs,
     audit,
     receipt: await receiptOf(id),
     agreement: ctx.agreement,
-    missingConditions: missingConditions(run),
+    missingConditions: missingConditions(run, ctx.instrument),
     changesSinceReview: since === null ? [] : revisionDTOs.filter(r => new Date(r.at).getTime() > since),
     certificate: certificate ? { id: certificate.id, number: certificate.number, status: certificate.status } : null,
     corrects: corrected ? { id: corrected.id, number: corrected.number } : null,
+    equation: runEquation(run, ctx, points),
   }
 }
 

@@ -11,7 +11,8 @@
  */
 import { createError } from 'h3'
 import type { Transaction } from 'sequelize'
-import { CONDITION_FIELDS, CONDITION_LABELS } from '#shared/calibration/constants'
+import { CONDITION_FIELDS, computationConditionsFor, conditionFieldsFor, RUN_CONDITION_LABELS } from '#shared/calibration/constants'
+import { isImagerKind, isRatioKind } from '#shared/registers/constants'
 import { computePoint } from '#shared/calibration/compute'
 import type { RunActionInput, RunCreateInput, RunReturnInput, RunUpdateInput, VoidInput } from '#shared/schemas/run'
 import { CalibrationRun } from '#server/models/CalibrationRun'
@@ -22,7 +23,7 @@ import { RunRevision } from '#server/models/RunRevision'
 import { recordAudit, snapshot, updateAudited } from '#server/utils/audit'
 import { assertVersion, conflict, engine, invalidInput, notFound } from '#server/utils/errors'
 import { assertUsableOn } from '#server/services/equipment/usability'
-import { Equipment, computationInput, fitProblem, loadRunContext, observationOf, pointColumns, pointRecord, refusal } from './context'
+import { Equipment, computationInput, equationKindProblem, fitProblem, loadRunContext, observationOf, pointColumns, pointRecord, refusal, runEquation } from './context'
 
 /** Who makes a change (the signed-in user, or a demo account in the seed). */
 export interface Actor {
@@ -31,8 +32,8 @@ export interface Actor {
 
 /** Header fields whose change alters the computed points. */
 /** Header fields the points' results depend on (the reading model's inputs, the procedure, the equipment's date; the spot check's distance and spot). */
-const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate', 'distanceMm', 'spotDiameterMm'] as const
-const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'spotDiameterMm', 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId'] as const
+const RECOMPUTE_KEYS = ['emissivitySetting', 'reflectedTemperatureK', 'instrumentTemperatureK', 'procedureVersionId', 'calibrationDate', 'distanceMm', 'spotDiameterMm', 'emissivityRatioSetting'] as const
+const HEADER_KEYS = ['calibrationDate', ...CONDITION_FIELDS, 'spotDiameterMm', 'ambientInstrumentId', 'adjusted', 'internalNotes', 'certificateRemarks', 'methodDeviations', 'placeOfCalibration', 'siteAddress', 'procedureVersionId', 'emissivityRatioSetting', 'imagerSettings', 'calibrationEquation'] as const
 
 export const LOCKED_MESSAGE = 'approved runs cannot change'
 export const FROZEN_MESSAGE = 'the run is under review: nothing in it can change until the reviewer returns it'
@@ -89,6 +90,20 @@ export async function markChanged(t: Transaction, run: CalibrationRun, actor: Ac
   await run.save({ transaction: t })
 }
 
+/**
+ * What only some kinds of instrument record in a run (400 naming the field otherwise): the ratio setting
+ * (ratio pyrometers), the imager's settings (thermal imagers), a calibration equation (spot and reference
+ * pyrometers).
+ */
+function assertKindFields(instrument: Instrument, v: { emissivityRatioSetting?: number | null, imagerSettings?: unknown, calibrationEquation?: unknown }): void {
+  if (v.emissivityRatioSetting != null && !isRatioKind(instrument.kind)) invalidInput({ emissivityRatioSetting: 'Only a ratio pyrometer has an emissivity-ratio setting' })
+  if (v.imagerSettings != null && !isImagerKind(instrument.kind)) invalidInput({ imagerSettings: 'Only a thermal imager\'s run records lens, field of view, range setting and NUC' })
+  if (v.calibrationEquation != null) {
+    const problem = equationKindProblem(instrument)
+    if (problem) invalidInput({ calibrationEquation: problem })
+  }
+}
+
 async function assertAmbientInstrument(t: Transaction, id: number | null | undefined, date: string): Promise<void> {
   if (id == null) return
   const r = await ReferenceInstrument.findByPk(id, { transaction: t })
@@ -110,6 +125,7 @@ export async function createRunIn(t: Transaction, actor: Actor, input: RunCreate
   if (!instrument || instrument.archived) invalidInput({ instrumentId: 'No instrument with this id' })
   if (instrument.status === 'retired') invalidInput({ instrumentId: 'The instrument is retired' })
   await loadRunContext(t, instrument.id, input.procedureVersionId)
+  assertKindFields(instrument, input)
   await assertAmbientInstrument(t, input.ambientInstrumentId, input.calibrationDate)
   const run = await CalibrationRun.create({
     ...input,
@@ -150,9 +166,9 @@ async function recomputePoints(t: Transaction, actor: Actor, run: CalibrationRun
   const blame = (['distanceMm', 'spotDiameterMm', 'procedureVersionId', 'calibrationDate'] as const).find(k => changed.includes(k))
   const points = await RunPoint.findAll({ where: { runId: run.id, voidedAt: null }, order: [['seq', 'ASC']], transaction: t })
   if (!points.length) return 0
-  const missing = ['reflectedTemperatureK', 'instrumentTemperatureK', 'emissivitySetting'].filter(f => run.get(f) == null)
-  if (missing.length) invalidInput(Object.fromEntries(missing.map(f => [f, 'The run has points: this measured condition cannot be removed'])))
   const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+  const missing = computationConditionsFor(ctx.ratio).filter(f => run.get(f) == null)
+  if (missing.length) invalidInput(Object.fromEntries(missing.map(f => [f, 'The run has points: this measured condition cannot be removed'])))
   const eq = new Equipment(t, run.calibrationDate)
   const changes: { pointId: number, before: Record<string, unknown>, after: Record<string, unknown> }[] = []
   for (const p of points) {
@@ -192,6 +208,8 @@ export async function updateRunIn(t: Transaction, actor: Actor, id: number, inpu
     if (asLeft) invalidInput({ adjusted: `The run has ${asLeft} as-left point(s); change them to as found or void them first` })
   }
   if (changes.procedureVersionId !== undefined) await loadRunContext(t, run.instrumentId, changes.procedureVersionId)
+  const instrument = await Instrument.findByPk(run.instrumentId, { transaction: t })
+  if (instrument) assertKindFields(instrument, changes)
   if (changes.ambientInstrumentId !== undefined) await assertAmbientInstrument(t, changes.ambientInstrumentId, changes.calibrationDate ?? run.calibrationDate)
   const before = header(run)
   const full = snapshot(run)
@@ -220,9 +238,19 @@ export async function voidRunIn(t: Transaction, actor: Actor, id: number, input:
 
 // ---------------------------------------------------------------- workflow
 
-/** The measured conditions still to be entered. */
-export function missingConditions(run: CalibrationRun): { field: string, label: string }[] {
-  return CONDITION_FIELDS.filter(f => run.get(f) === null || run.get(f) === undefined).map(f => ({ field: f, label: CONDITION_LABELS[f] }))
+/** Label of a thermal imager's settings when they are still to be entered. */
+export const IMAGER_SETTINGS_LABEL = 'Imager settings (lens, field of view, range setting, non-uniformity correction)'
+
+/**
+ * The measured conditions still to be entered, for the run's kind of instrument: a ratio pyrometer's
+ * ratio setting instead of the emissivity setting and the instrument temperature; a thermal imager's
+ * settings besides the conditions.
+ */
+export function missingConditions(run: CalibrationRun, instrument?: Pick<Instrument, 'kind'> | null): { field: string, label: string }[] {
+  const kind = instrument?.kind ?? ''
+  const out = conditionFieldsFor(isRatioKind(kind)).filter(f => run.get(f) === null || run.get(f) === undefined).map(f => ({ field: f as string, label: RUN_CONDITION_LABELS[f] }))
+  if (isImagerKind(kind) && !run.imagerSettings) out.push({ field: 'imagerSettings', label: IMAGER_SETTINGS_LABEL })
+  return out
 }
 
 /**
@@ -235,13 +263,21 @@ export async function submitRunIn(t: Transaction, actor: Actor, id: number, inpu
   assertNotLocked(run)
   assertVersion(run.version, input.version)
   if (run.status === 'submitted') conflict('The run is already submitted')
-  const missing = missingConditions(run)
+  const instrument = await Instrument.findByPk(run.instrumentId, { transaction: t })
+  const missing = missingConditions(run, instrument)
   if (missing.length) invalidInput(Object.fromEntries(missing.map(m => [m.field, `Enter the ${m.label.toLowerCase()} measured for this run before submitting it`])))
   if (run.placeOfCalibration === 'on-site' && !run.siteAddress) invalidInput({ siteAddress: 'Give the address of the site' })
   const stages = new Set((await RunPoint.findAll({ where: { runId: id, voidedAt: null }, attributes: ['stage'], transaction: t })).map(p => p.stage))
   if (!stages.size) invalidInput({ points: 'Add at least one point before submitting' })
   if (run.adjusted && !(stages.has('as-found') && stages.has('as-left'))) {
     invalidInput({ points: 'An adjusted run needs both as-found and as-left points before it is submitted' })
+  }
+  if (run.calibrationEquation) {
+    // the equation the certificate will state must exist: enough as-left points, every table temperature inside their range
+    const ctx = await loadRunContext(t, run.instrumentId, run.procedureVersionId, run.requestId)
+    const points = await RunPoint.findAll({ where: { runId: id, voidedAt: null }, order: [['seq', 'ASC']], transaction: t })
+    const eq = runEquation(run, ctx, points)
+    if (eq?.problem) invalidInput({ [eq.problem.field]: eq.problem.message })
   }
   await updateAudited(t, actor, run, { status: 'submitted', submittedAt: new Date() }, { entity: 'CalibrationRun', action: auditAction })
   return run
