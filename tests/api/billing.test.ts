@@ -1,0 +1,328 @@
+// Billing through the API (issue 18): the price list kept in versions; quotes from reviewed requests
+// accepted with a purchase order into orders; invoices numbered gap-free in their own series under
+// concurrent issues; customers kept to their own organization's quotes, orders and invoices (404);
+// and card payment through the local payment service the test runner starts
+// (scripts/lib/paymentFake.ts, BANDLIGHT_TEST_PAYMENT_URL): only a verified event pays an invoice, a
+// wrong or missing signature is 400, audited and changes nothing, a replayed event changes nothing.
+// Prices here are invented for the test; the arithmetic (20 % tax on the net total) is the price
+// list's own rule (shared/billing/money.ts).
+import { beforeAll, describe, expect, it } from 'vitest'
+import { signatureFor } from '../../scripts/lib/paymentFake'
+import type { AuditEventDTO, Page } from '../../shared/types'
+import type { InvoiceDTO, OrderDTO, PriceListsDTO, QuoteDTO } from '../../shared/types/billing'
+import type { OutboxMessageDTO } from '../../shared/types/mail'
+import { makeCustomer, makeInstrument, makeProcedure, organizationOf } from '../support/factories'
+import { Client, signedIn, unique } from '../support/http'
+
+const PAYMENT_URL = process.env.BANDLIGHT_TEST_PAYMENT_URL ?? ''
+const WEBHOOK_SECRET = process.env.STRIPE_WEBHOOK_SECRET ?? ''
+
+let admin: Client
+let tech: Client
+let quality: Client
+let customer: Client
+let ownOrg = 0
+let procedure: { id: number, currentVersion: { id: number } }
+
+/** The current price list as the body of POST /api/prices, with changes. */
+async function priceListBody(over: Record<string, unknown> = {}): Promise<Record<string, unknown>> {
+  const { current } = (await admin.get<PriceListsDTO>('/api/prices')).body
+  expect(current, 'the demo has a price list').toBeTruthy()
+  const { currency, taxRatePercent, paymentTermsDays, quoteValidDays, bankDetails, items, extras } = current!
+  return { currency, taxRatePercent, paymentTermsDays, quoteValidDays, bankDetails, note: null, items, extras, ...over }
+}
+
+/** The price list with this test's procedure priced at `priceMinor` for 2 points and 2000 per further point. */
+async function priceProcedure(priceMinor: number, note: string): Promise<PriceListsDTO> {
+  const body = await priceListBody({ note })
+  const items = (body.items as { procedureId: number | null }[]).filter(i => i.procedureId !== procedure.id)
+  const r = await admin.post<PriceListsDTO>('/api/prices', { ...body, items: [...items, { label: 'Billing test procedure', procedureId: procedure.id, instrumentKind: null, priceMinor, includedPoints: 2, extraPointMinor: 2000 }] })
+  expect(r.status, JSON.stringify(r.body)).toBe(201)
+  return r.body
+}
+
+/** A request of the customer's organization for one new instrument, reviewed by the lab with three points. */
+async function reviewedRequest(asker: Client, organizationId: number): Promise<{ id: number, version: number }> {
+  const instrument = await makeInstrument(tech, organizationId)
+  const made = await asker.post('/api/requests', { instrumentIds: [instrument.id], requirements: 'At 0, 50 and 100 °C' })
+  expect(made.status, JSON.stringify(made.body)).toBe(201)
+  const reviewed = await tech.post(`/api/requests/${made.body.id}/review`, {
+    version: made.body.version,
+    terms: { procedureVersionId: procedure.currentVersion.id, pointsK: [273.15, 323.15, 373.15], distanceMm: 300, emissivitySetting: 0.95, decisionRule: 'simple-acceptance' },
+  })
+  expect(reviewed.status, JSON.stringify(reviewed.body)).toBe(200)
+  return reviewed.body
+}
+
+/** A quote made by the laboratory for a request and sent. */
+async function sentQuote(requestId: number): Promise<QuoteDTO> {
+  const draft = await admin.post<QuoteDTO>('/api/quotes', { requestId })
+  expect(draft.status, JSON.stringify(draft.body)).toBe(201)
+  const sent = await admin.post<QuoteDTO>(`/api/quotes/${draft.body.id}/send`, { version: draft.body.version })
+  expect(sent.status, JSON.stringify(sent.body)).toBe(200)
+  return sent.body
+}
+
+/** Request → review → quote → the customer accepts with a purchase order: the order. */
+async function placedOrder(asker: Client, organizationId: number): Promise<{ quote: QuoteDTO, order: OrderDTO }> {
+  const request = await reviewedRequest(asker, organizationId)
+  const quote = await sentQuote(request.id)
+  const accepted = await asker.post<QuoteDTO>(`/api/quotes/${quote.id}/accept`, { version: quote.version, purchaseOrder: unique('PO-') })
+  expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
+  expect(accepted.body.orderId).toEqual(expect.any(Number))
+  const order = await admin.get<OrderDTO>(`/api/orders/${accepted.body.orderId}`)
+  expect(order.status).toBe(200)
+  return { quote: accepted.body, order: order.body }
+}
+
+/** An order invoiced by hand: the invoice. */
+async function invoicedOrder(asker: Client, organizationId: number): Promise<{ quote: QuoteDTO, order: OrderDTO, invoice: InvoiceDTO }> {
+  const { quote, order } = await placedOrder(asker, organizationId)
+  const r = await admin.post<InvoiceDTO>(`/api/orders/${order.id}/invoice`, { version: order.version })
+  expect(r.status, JSON.stringify(r.body)).toBe(201)
+  return { quote, order, invoice: r.body }
+}
+
+/** A new customer organization with its own portal user, signed in. */
+async function otherCustomer(): Promise<{ client: Client, organizationId: number }> {
+  const org = await makeCustomer(admin)
+  const email = `${unique('billing')}@bandlight.test`
+  const made = await admin.post('/api/admin/users', { email, name: 'Other Customer', role: 'customer', organizationId: org.id, password: 'a-good-long-password' })
+  expect(made.status, JSON.stringify(made.body)).toBe(201)
+  const client = new Client()
+  expect((await client.login(email, 'a-good-long-password')).status).toBe(200)
+  return { client, organizationId: org.id }
+}
+
+const sequenceOf = (number: string) => Number(number.split('-').pop())
+
+/** Where this file's webhook deliveries come from (the test server trusts X-Forwarded-For); refusals are counted per address. */
+const SENDER = '203.0.113.118'
+
+/** POST a body to the webhook as the provider would, with this signature header (none when null). */
+function deliver(body: string, signature: string | null, userAgent: string) {
+  return new Client().request('POST', '/api/payments/webhook', body, { 'content-type': 'application/json', 'user-agent': userAgent, 'x-forwarded-for': SENDER, ...(signature === null ? {} : { 'stripe-signature': signature }) })
+}
+
+/** The latest audit rows of an action whose `after` matches (other test files may write rows meanwhile). */
+async function auditRows(action: string, after: Record<string, unknown>): Promise<AuditEventDTO[]> {
+  const r = await admin.get<Page<AuditEventDTO>>(`/api/admin/audit?action=${action}&pageSize=200`)
+  expect(r.status).toBe(200)
+  return r.body.rows.filter(a => Object.entries(after).every(([k, v]) => (a.after as Record<string, unknown> | null)?.[k] === v))
+}
+
+interface FakeEvent { id: string, type: string, body: string, answers: number[] }
+async function fakeEvents(): Promise<FakeEvent[]> {
+  const r = await fetch(`${PAYMENT_URL}/_fake/events`)
+  expect(r.status).toBe(200)
+  return await r.json() as FakeEvent[]
+}
+
+/** The customer's answer on the fake's hosted page: pay or decline. */
+async function answerOnPage(sessionUrl: string, action: 'pay' | 'decline'): Promise<Response> {
+  return fetch(sessionUrl, { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: `action=${action}`, redirect: 'manual' })
+}
+
+beforeAll(async () => {
+  expect(PAYMENT_URL, 'the test runner starts the local payment service').toBeTruthy()
+  expect(WEBHOOK_SECRET, 'the test runner gives the tests the webhook secret').toBeTruthy()
+  admin = await signedIn('admin')
+  tech = await signedIn('technician')
+  quality = await signedIn('quality')
+  customer = await signedIn('customer')
+  ownOrg = await organizationOf(customer)
+  procedure = await makeProcedure(quality, {
+    cmc: [{ minK: 253.15, maxK: 423.15, expandedUncertaintyK: 0.6 }],
+    applicability: { sourceKinds: ['flat-plate'], bandMinUm: 7, bandMaxUm: 15, minK: 253.15, maxK: 423.15 },
+  })
+  await priceProcedure(15000, 'Billing test: a price for the test procedure')
+})
+
+describe('price list', () => {
+  it('every save is a new version, audited; a quote keeps the prices it was made with', async () => {
+    const before = (await admin.get<PriceListsDTO>('/api/prices')).body
+    const first = await priceProcedure(15000, unique('first '))
+    expect(first.current!.versionNumber).toBe(before.current!.versionNumber + 1)
+    const requestA = await reviewedRequest(customer, ownOrg)
+    const quoteA = (await admin.post<QuoteDTO>('/api/quotes', { requestId: requestA.id })).body
+    // 1 × 150.00 with 2 points included, 1 further point at 20.00: net 170.00, 20 % tax 34.00.
+    expect(quoteA.lines.map(l => [l.kind, l.quantity, l.unitPriceMinor])).toEqual([['calibration', 1, 15000], ['extra-points', 1, 2000]])
+    expect(quoteA).toMatchObject({ currency: 'GBP', taxRatePercent: 20, netMinor: 17000, taxMinor: 3400, grossMinor: 20400 })
+
+    const second = await priceProcedure(16000, unique('second '))
+    expect(second.current!.versionNumber).toBe(first.current!.versionNumber + 1)
+    // Every version is kept, newest first.
+    expect(second.versions.slice(0, 3).map(v => v.versionNumber)).toEqual([second.current!.versionNumber, first.current!.versionNumber, before.current!.versionNumber])
+    expect(second.versions[1]!.note).toBe(first.current!.note)
+    const audit = (await admin.get<Page<AuditEventDTO>>(`/api/admin/audit?entity=PriceList&entityId=${second.current!.id}&pageSize=10`)).body.rows
+    expect(audit.map(a => [a.action, a.userName])).toEqual([['new-version', 'Ada Marwick']])
+
+    // The draft made before keeps its prices; a quote made now takes the new version's.
+    expect((await admin.get<QuoteDTO>(`/api/quotes/${quoteA.id}`)).body.grossMinor).toBe(20400)
+    const requestB = await reviewedRequest(customer, ownOrg)
+    const quoteB = (await admin.post<QuoteDTO>('/api/quotes', { requestId: requestB.id })).body
+    expect(quoteB.lines[0]!.unitPriceMinor).toBe(16000)
+    expect(quoteB.grossMinor).toBe(21600)
+
+    // Only the administrator keeps the prices; a bad list changes nothing.
+    expect((await tech.get('/api/prices')).status).toBe(403)
+    expect((await customer.post('/api/prices', await priceListBody())).status).toBe(403)
+    const bad = await admin.post('/api/prices', await priceListBody({ currency: 'pounds', taxRatePercent: -1 }))
+    expect(bad.status).toBe(400)
+    expect(Object.keys(bad.body.data.fields)).toEqual(expect.arrayContaining(['currency', 'taxRatePercent']))
+    expect((await admin.get<PriceListsDTO>('/api/prices')).body.current!.versionNumber).toBe(second.current!.versionNumber)
+    // Back to the first price for the tests below.
+    await priceProcedure(15000, 'Billing test: back to 150.00')
+  })
+})
+
+describe('invoice numbers', () => {
+  it('are gap-free in their own series under 8 concurrent issues, one invoice per order', async () => {
+    const orders: OrderDTO[] = []
+    for (let i = 0; i < 8; i++) orders.push((await placedOrder(customer, ownOrg)).order)
+    const replies = await Promise.all(orders.map(o => admin.post<InvoiceDTO>(`/api/orders/${o.id}/invoice`, { version: o.version })))
+    for (const r of replies) expect(r.status, JSON.stringify(r.body)).toBe(201)
+    const numbers = replies.map(r => r.body.number)
+    expect(new Set(numbers).size).toBe(8)
+    const year = numbers[0]!.split('-')[1]
+    for (const n of numbers) expect(n).toMatch(new RegExp(`^INV-${year}-\\d{5}$`))
+    const ours = numbers.map(sequenceOf).sort((a, b) => a - b)
+    expect(ours.at(-1)! - ours[0]!).toBe(7)
+    // The whole year's series has no gap, from 1.
+    const all = (await admin.get<Page<InvoiceDTO>>('/api/invoices?pageSize=500')).body.rows
+      .filter(i => i.number.startsWith(`INV-${year}-`)).map(i => sequenceOf(i.number)).sort((a, b) => a - b)
+    expect(all).toEqual(all.map((_, i) => i + 1))
+    // Each invoice is the quote's lines, due 30 days after issue (the price list's terms).
+    for (const r of replies) {
+      expect(r.body).toMatchObject({ status: 'open', grossMinor: 20400, balanceMinor: 20400, origin: 'manual' })
+      expect(Date.parse(r.body.dueDate) - Date.parse(r.body.issueDate)).toBe(30 * 86_400_000)
+    }
+    // An order is invoiced once, also when asked twice at the same time.
+    const { order } = await placedOrder(customer, ownOrg)
+    const twice = await Promise.all([0, 1].map(() => admin.post(`/api/orders/${order.id}/invoice`, { version: order.version })))
+    expect(twice.map(r => r.status).sort()).toEqual([201, 409])
+  })
+})
+
+describe('customers see only their own organization\'s billing', () => {
+  it('another organization\'s quote, order and invoice answer 404 and are not listed; a draft is not shown to anyone outside the lab', async () => {
+    const other = await otherCustomer()
+    const { quote, order, invoice } = await invoicedOrder(other.client, other.organizationId)
+    // The other organization sees its own.
+    expect((await other.client.get(`/api/quotes/${quote.id}`)).status).toBe(200)
+    expect((await other.client.get(`/api/orders/${order.id}`)).status).toBe(200)
+    expect((await other.client.get(`/api/invoices/${invoice.id}`)).status).toBe(200)
+    expect((await other.client.get(`/api/invoices/${invoice.id}/pdf`)).status).toBe(200)
+
+    for (const path of [`/api/quotes/${quote.id}`, `/api/quotes/${quote.id}/pdf`, `/api/orders/${order.id}`, `/api/invoices/${invoice.id}`, `/api/invoices/${invoice.id}/pdf`]) {
+      expect((await customer.get(path)).status, path).toBe(404)
+    }
+    expect((await customer.post(`/api/quotes/${quote.id}/decline`, { version: quote.version, reason: 'Not ours' })).status).toBe(404)
+    expect((await customer.post(`/api/invoices/${invoice.id}/checkout`)).status).toBe(404)
+    const lists = await Promise.all(['/api/quotes', '/api/orders', '/api/invoices'].map(p => customer.get<Page<{ id: number, organizationId: number }>>(`${p}?pageSize=500`)))
+    for (const l of lists) {
+      expect(l.status).toBe(200)
+      expect(l.body.rows.every(r => r.organizationId === ownOrg)).toBe(true)
+    }
+    expect(lists[0]!.body.rows.map(r => r.id)).not.toContain(quote.id)
+    expect(lists[1]!.body.rows.map(r => r.id)).not.toContain(order.id)
+    expect(lists[2]!.body.rows.map(r => r.id)).not.toContain(invoice.id)
+
+    // A draft quote of the customer's own request: not shown to the customer until it is sent.
+    const request = await reviewedRequest(customer, ownOrg)
+    const draft = (await admin.post<QuoteDTO>('/api/quotes', { requestId: request.id })).body
+    expect((await customer.get(`/api/quotes/${draft.id}`)).status).toBe(404)
+    expect((await customer.post(`/api/quotes/${draft.id}/accept`, { version: draft.version, purchaseOrder: 'PO-1' })).status).toBe(404)
+    expect((await customer.get(`/api/quotes?requestId=${request.id}`)).body.total).toBe(0)
+  })
+})
+
+describe('card payment through the local payment service', () => {
+  it('a wrong or missing signature is 400, audited, and changes nothing; a declined card leaves the invoice unpaid; only the verified event pays it; a replayed event changes nothing', async () => {
+    const { invoice } = await invoicedOrder(customer, ownOrg)
+    const checkout = await customer.post<{ url: string }>(`/api/invoices/${invoice.id}/checkout`)
+    expect(checkout.status, JSON.stringify(checkout.body)).toBe(200)
+    expect(checkout.body.url.startsWith(`${PAYMENT_URL}/pay/cs_test_`)).toBe(true)
+    const sessionId = checkout.body.url.split('/').pop()!
+    const before = (await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body
+    expect(before).toMatchObject({ status: 'open', paidMinor: 0, payments: [] })
+    expect(before.attempts.map(a => a.status)).toEqual(['open'])
+
+    // A forged "paid" event for this very session, signed with another secret, with none, with a garbled one, and a genuine signature over another body.
+    const forged = JSON.stringify({
+      id: `evt_${unique('forged')}`, object: 'event', type: 'checkout.session.completed', created: Math.floor(Date.now() / 1000),
+      data: { object: { id: sessionId, object: 'checkout.session', payment_status: 'paid', amount_total: invoice.grossMinor, currency: 'gbp', metadata: { invoiceId: String(invoice.id), attemptId: String(before.attempts[0]!.id) } } },
+    })
+    const agent = unique('forger-')
+    const wrongSecret = await deliver(forged, signatureFor(forged, 'whsec_not_the_secret'), agent)
+    expect(wrongSecret.status).toBe(400)
+    expect(wrongSecret.body.data.fields).toHaveProperty('signature')
+    expect((await deliver(forged, null, agent)).status).toBe(400)
+    expect((await deliver(forged, 't=1,v1=00', agent)).status).toBe(400)
+    const other = JSON.stringify({ id: 'evt_other', object: 'event', type: 'ping', data: { object: {} } })
+    expect((await deliver(forged, signatureFor(other, WEBHOOK_SECRET), agent)).status).toBe(400)
+    // Nothing changed, and each refusal is in the audit trail with the caller.
+    expect((await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body).toEqual(before)
+    expect(await auditRows('payment-event', { invoiceId: invoice.id })).toEqual([])
+    const refusals = await auditRows('refused-webhook', { userAgent: agent })
+    expect(refusals).toHaveLength(4)
+    for (const a of refusals) expect(a.after).toMatchObject({ address: SENDER, reason: expect.any(String) })
+    expect(refusals.map(a => (a.after as { signaturePresent: boolean }).signaturePresent).sort()).toEqual([false, true, true, true])
+
+    // The customer's card is declined on the hosted page: the attempt fails, the invoice stays unpaid.
+    const declined = await answerOnPage(checkout.body.url, 'decline')
+    expect(declined.status).toBe(402)
+    await expect.poll(async () => (await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body.attempts[0]!.status).toBe('failed')
+    const afterDecline = (await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body
+    expect(afterDecline).toMatchObject({ status: 'open', paidMinor: 0, balanceMinor: invoice.grossMinor, payments: [] })
+    expect(afterDecline.attempts[0]!.failure).toBe('Your card was declined.')
+
+    // Paid on the hosted page: the provider's signed event pays the invoice (the page returns to the invoice).
+    const paid = await answerOnPage(checkout.body.url, 'pay')
+    expect(paid.status).toBe(303)
+    expect(paid.headers.get('location')).toMatch(new RegExp(`/invoices/${invoice.id}\\?payment=done$`))
+    await expect.poll(async () => (await customer.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body.status).toBe('paid')
+    const done = (await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body
+    expect(done).toMatchObject({ status: 'paid', paidMinor: invoice.grossMinor, balanceMinor: 0 })
+    expect(done.payments).toHaveLength(1)
+    expect(done.payments[0]).toMatchObject({ method: 'card', amountMinor: invoice.grossMinor, reference: `Card payment, session ${sessionId}` })
+    expect(done.attempts[0]!.status).toBe('paid')
+    const completed = (await fakeEvents()).find(e => e.type === 'checkout.session.completed' && e.body.includes(sessionId))!
+    expect(completed.answers).toEqual([200])
+
+    // The same event again — the provider's retry (freshly signed) or a captured delivery replayed — is 200 and changes nothing.
+    const applied = await auditRows('payment-event', { invoiceId: invoice.id })
+    expect(applied.map(a => (a.after as { type: string, outcome: string })).map(a => `${a.type} ${a.outcome}`).sort())
+      .toEqual(['checkout.session.completed applied', 'payment_intent.payment_failed applied'])
+    const resent = await fetch(`${PAYMENT_URL}/_fake/events/${completed.id}/resend`, { method: 'POST' })
+    expect(await resent.json()).toEqual({ status: 200 })
+    const replay = await deliver(completed.body, signatureFor(completed.body, WEBHOOK_SECRET), unique('replay-'))
+    expect(replay.status).toBe(200)
+    expect(replay.body).toEqual({ received: true, duplicate: true })
+    // Twice at once, too.
+    const both = await Promise.all([0, 1].map(() => deliver(completed.body, signatureFor(completed.body, WEBHOOK_SECRET), 'replay')))
+    expect(both.map(r => r.status)).toEqual([200, 200])
+    expect((await admin.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body).toEqual(done)
+    expect(await auditRows('payment-event', { invoiceId: invoice.id })).toEqual(applied)
+    // One thank-you mail for the one payment.
+    const thanks = (await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=payment-received&pageSize=200')).body.rows
+    expect(thanks.filter(m => m.subject === `Payment received for invoice ${invoice.number}`)).toHaveLength(1)
+    // Nothing left to pay: no second checkout.
+    expect((await customer.post(`/api/invoices/${invoice.id}/checkout`)).status).toBe(409)
+  })
+
+  it('the lab records a bank transfer by hand, never more than is owed; customers cannot', async () => {
+    const { invoice } = await invoicedOrder(customer, ownOrg)
+    expect((await customer.post(`/api/invoices/${invoice.id}/payments`, { version: invoice.version, amountMinor: 100, receivedOn: invoice.issueDate, reference: 'x' })).status).toBe(403)
+    const tooMuch = await admin.post(`/api/invoices/${invoice.id}/payments`, { version: invoice.version, amountMinor: invoice.grossMinor + 1, receivedOn: invoice.issueDate, reference: 'BACS 1' })
+    expect(tooMuch.status).toBe(400)
+    expect(tooMuch.body.data.fields).toHaveProperty('amountMinor')
+    const part = await admin.post<InvoiceDTO>(`/api/invoices/${invoice.id}/payments`, { version: invoice.version, amountMinor: 10000, receivedOn: invoice.issueDate, reference: 'BACS 1' })
+    expect(part.status, JSON.stringify(part.body)).toBe(200)
+    expect(part.body).toMatchObject({ status: 'open', paidMinor: 10000, balanceMinor: invoice.grossMinor - 10000 })
+    const rest = await admin.post<InvoiceDTO>(`/api/invoices/${invoice.id}/payments`, { version: part.body.version, amountMinor: invoice.grossMinor - 10000, receivedOn: invoice.issueDate, reference: 'BACS 2' })
+    expect(rest.status, JSON.stringify(rest.body)).toBe(200)
+    expect(rest.body).toMatchObject({ status: 'paid', balanceMinor: 0 })
+    expect(rest.body.payments.map(p => p.method)).toEqual(['bank-transfer', 'bank-transfer'])
+  })
+})
