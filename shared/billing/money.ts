@@ -130,7 +130,8 @@ export function lineAmount(quantity: number, unitPriceMinor: number): number {
  */
 export function taxOf(netMinor: number, rateBp: number): number {
   const n = BigInt(Math.abs(netMinor)) * BigInt(rateBp)
-  const q = (n + 5000n) / 10000n
+  // BigInt(…) rather than literals: the server bundle's target (es2019) has no BigInt literals.
+  const q = (n + BigInt(5000)) / BigInt(10000)
   const t = Number(q)
   return netMinor < 0 ? -t : t
 }
