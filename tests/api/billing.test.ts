@@ -6,6 +6,7 @@
 // wrong or missing signature is 400, audited and changes nothing, a replayed event changes nothing.
 // Prices here are invented for the test; the arithmetic (20 % tax on the net total) is the price
 // list's own rule (shared/billing/money.ts).
+import Papa from 'papaparse'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signatureFor } from '../../scripts/lib/paymentFake'
 import type { AuditEventDTO, Page } from '../../shared/types'
@@ -64,10 +65,10 @@ async function sentQuote(requestId: number): Promise<QuoteDTO> {
 }
 
 /** Request → review → quote → the customer accepts with a purchase order: the order. */
-async function placedOrder(asker: Client, organizationId: number): Promise<{ quote: QuoteDTO, order: OrderDTO }> {
+async function placedOrder(asker: Client, organizationId: number, purchaseOrder = unique('PO-')): Promise<{ quote: QuoteDTO, order: OrderDTO }> {
   const request = await reviewedRequest(asker, organizationId)
   const quote = await sentQuote(request.id)
-  const accepted = await asker.post<QuoteDTO>(`/api/quotes/${quote.id}/accept`, { version: quote.version, purchaseOrder: unique('PO-') })
+  const accepted = await asker.post<QuoteDTO>(`/api/quotes/${quote.id}/accept`, { version: quote.version, purchaseOrder })
   expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
   expect(accepted.body.orderId).toEqual(expect.any(Number))
   const order = await admin.get<OrderDTO>(`/api/orders/${accepted.body.orderId}`)
@@ -76,8 +77,8 @@ async function placedOrder(asker: Client, organizationId: number): Promise<{ quo
 }
 
 /** An order invoiced by hand: the invoice. */
-async function invoicedOrder(asker: Client, organizationId: number): Promise<{ quote: QuoteDTO, order: OrderDTO, invoice: InvoiceDTO }> {
-  const { quote, order } = await placedOrder(asker, organizationId)
+async function invoicedOrder(asker: Client, organizationId: number, purchaseOrder?: string): Promise<{ quote: QuoteDTO, order: OrderDTO, invoice: InvoiceDTO }> {
+  const { quote, order } = await placedOrder(asker, organizationId, purchaseOrder)
   const r = await admin.post<InvoiceDTO>(`/api/orders/${order.id}/invoice`, { version: order.version })
   expect(r.status, JSON.stringify(r.body)).toBe(201)
   return { quote, order, invoice: r.body }
@@ -324,5 +325,63 @@ describe('card payment through the local payment service', () => {
     expect(rest.status, JSON.stringify(rest.body)).toBe(201)
     expect(rest.body).toMatchObject({ status: 'paid', balanceMinor: 0 })
     expect(rest.body.payments.map(p => p.method)).toEqual(['bank-transfer', 'bank-transfer'])
+  })
+})
+
+describe('the books', () => {
+  it('exports invoices, credit notes and payments of a period as CSV, credits negative and formula cells escaped', async () => {
+    const purchaseOrder = `=1+2 ${unique()}`
+    const { invoice } = await invoicedOrder(customer, ownOrg, purchaseOrder)
+    const paid = await admin.post<InvoiceDTO>(`/api/invoices/${invoice.id}/payments`, { version: invoice.version, amountMinor: 10000, receivedOn: invoice.issueDate, reference: '@bank 1' })
+    expect(paid.status, JSON.stringify(paid.body)).toBe(201)
+    // Credit the additional point (20.00 + 20 % tax).
+    const credited = await admin.post<InvoiceDTO>(`/api/invoices/${invoice.id}/credit-notes`, { version: paid.body.version, reason: 'Goodwill: the fourth point is on us', lines: [{ invoiceLine: 1, quantity: 1 }] })
+    expect(credited.status, JSON.stringify(credited.body)).toBe(201)
+    expect(credited.body).toMatchObject({ creditedMinor: 2400, paidMinor: 10000, balanceMinor: 20400 - 2400 - 10000, status: 'open' })
+    expect(credited.body.creditNotes[0]!.number).toMatch(/^CN-\d{4}-\d{5}$/)
+    // More than is left of a line is refused, naming it.
+    const again = await admin.post(`/api/invoices/${invoice.id}/credit-notes`, { version: credited.body.version, reason: 'Twice', lines: [{ invoiceLine: 1, quantity: 1 }] })
+    expect(again.status).toBe(400)
+    expect(again.body.data.fields).toHaveProperty(['lines[0].quantity'])
+
+    const day = invoice.issueDate
+    const r = await admin.request('GET', `/api/billing/export?from=${day}&to=${day}`, undefined, { accept: 'text/csv' })
+    expect(r.status).toBe(200)
+    expect(r.headers.get('content-type')).toContain('text/csv')
+    const rows = Papa.parse<Record<string, string>>(String(r.body).replace(/^\uFEFF/, ''), { header: true, skipEmptyLines: true }).data
+    const mine = rows.filter(x => x.invoice === invoice.number)
+    expect(mine.map(x => [x.type, x.net, x.tax, x.gross, x.method])).toEqual([
+      ['invoice', '170.00', '34.00', '204.00', ''],
+      ['credit-note', '-20.00', '-4.00', '-24.00', ''],
+      ['payment', '', '', '100.00', 'bank-transfer'],
+    ])
+    for (const x of mine) expect(x.purchaseOrder).toBe(`'${purchaseOrder}`)
+    expect(mine[2]!.reference).toBe("'@bank 1")
+    expect(mine[0]!.customer).toBe('Kestrelmoor Foundry Ltd')
+    // Outside the period: none of it.
+    const before = await admin.request('GET', '/api/billing/export?from=2020-01-01&to=2020-12-31', undefined, { accept: 'text/csv' })
+    expect(String(before.body)).not.toContain(invoice.number)
+    // A period that ends before it starts; a customer.
+    const bad = await admin.get(`/api/billing/export?from=${day}&to=2020-01-01`)
+    expect(bad.status).toBe(400)
+    expect(bad.body.data.fields).toHaveProperty('to')
+    expect((await customer.get(`/api/billing/export?from=${day}&to=${day}`)).status).toBe(403)
+  })
+
+  it('lists overdue invoices for the lab and reminds each organization once per weekly milestone', async () => {
+    // The demo's advance invoice to Pellucid Float Glass (PO PFG-4471) was due on 2026-11-19 and is unpaid.
+    const overdue = (await admin.get<Page<InvoiceDTO>>('/api/invoices?status=overdue&pageSize=500')).body.rows
+    const pellucid = overdue.find(i => i.purchaseOrder === 'PFG-4471')
+    expect(pellucid).toMatchObject({ status: 'open', overdue: true, dueDate: '2026-11-19', organizationName: 'Pellucid Float Glass' })
+    expect(overdue.every(i => i.overdue && i.status === 'open')).toBe(true)
+    // Not the demo customer's.
+    expect((await customer.get<Page<InvoiceDTO>>('/api/invoices?status=overdue&pageSize=500')).body.rows.map(i => i.id)).not.toContain(pellucid!.id)
+
+    const reminders = async () => ((await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=invoice-overdue&pageSize=200')).body.rows).filter(m => m.text.includes(pellucid!.number))
+    for (let run = 0; run < 2; run++) expect((await admin.post('/api/admin/mail/reminders/run', {})).status).toBe(200)
+    const sent = await reminders()
+    expect(sent).toHaveLength(1)
+    expect(sent[0]!.subject).toMatch(/overdue/i)
+    expect(sent[0]!.recipients.length).toBeGreaterThan(0)
   })
 })

@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import type { InvoiceDTO, OrderDTO } from '../../shared/types/billing'
 import type { ReceivedMessageDTO } from '../../shared/types/mail'
-import { openBrowser, shot, signIn } from '../support/browser'
+import { openBrowser, pageOverflow, PHONE, shot, shotBoth, signIn } from '../support/browser'
 import { equipmentId, makeInstrument, organizationOf, pointOn, type Made } from '../support/factories'
 import { BASE_URL, DEMO_ACCOUNTS, signedIn, unique, type Client } from '../support/http'
 
@@ -210,6 +210,7 @@ describe('from request to payment', () => {
     await page.goto(`${BASE_URL}/invoices`)
     await page.locator(`[data-testid="invoice-list"] a[href="/invoices/${invoiceId}"]`).click()
     await page.waitForURL(new RegExp(`/invoices/${invoiceId}$`))
+    await page.getByTestId('invoice-balance').waitFor()
     expect(await page.getByTestId('billing-status').textContent()).toBe('Unpaid')
     expect(await page.getByTestId('invoice-balance').textContent()).toBe('£324.00')
     await shot(page, 'billing-invoice-customer')
@@ -263,5 +264,27 @@ describe('from request to payment', () => {
     await page.goto(`${BASE_URL}/orders/${orderId}`)
     expect(await page.getByTestId('order-invoice').textContent()).toBe(paid.number)
     await signOut(page)
+  })
+
+  it('the billing pages fit a phone for the lab and for the customer', async () => {
+    const { page } = browser
+    const wide: string[] = []
+    for (const [who, paths] of [
+      [DEMO_ACCOUNTS.admin, ['/admin/prices', `/quotes/${quoteId}`, `/orders/${orderId}`, `/invoices/${invoiceId}`, '/quotes', '/orders', '/invoices']],
+      [DEMO_ACCOUNTS.customer, ['/', `/quotes/${quoteId}`, `/orders/${orderId}`, `/invoices/${invoiceId}`, '/invoices']],
+    ] as const) {
+      await signIn(page, who)
+      for (const path of paths) {
+        await page.goto(`${BASE_URL}${path}`)
+        await page.locator('h1').first().waitFor()
+        const name = `billing-${who.split('@')[0]}${path.replace(/\//g, '-').replace(/-$/, '') || '-overview'}`
+        await shotBoth(page, name)
+        await page.setViewportSize(PHONE)
+        if (await pageOverflow(page) > 0) wide.push(`${who} ${path}`)
+        await page.setViewportSize({ width: 1360, height: 860 })
+      }
+      await signOut(page)
+    }
+    expect(wide, 'pages that scroll sideways on a phone').toEqual([])
   })
 })
