@@ -214,6 +214,7 @@ describe('customers see only their own organization\'s billing', () => {
     expect((await other.client.get(`/api/orders/${order.id}`)).status).toBe(200)
     expect((await other.client.get(`/api/invoices/${invoice.id}`)).status).toBe(200)
     expect((await other.client.get(`/api/invoices/${invoice.id}/pdf`)).status).toBe(200)
+    expect((await other.client.get(`/api/quotes/${quote.id}/pdf`)).status).toBe(200)
 
     for (const path of [`/api/quotes/${quote.id}`, `/api/quotes/${quote.id}/pdf`, `/api/orders/${order.id}`, `/api/invoices/${invoice.id}`, `/api/invoices/${invoice.id}/pdf`]) {
       expect((await customer.get(path)).status, path).toBe(404)
