@@ -484,7 +484,22 @@ export function computePoint(input: PointComputationInput): PointResult {
       probabilityOfConformity: conformity.probabilityOfConformity!,
     },
     engineVersion: ENGINE_VERSION,
-    inputs: input,
+    // an input the model does not take (NaN in) is echoed as null, as it is stored
+    inputs: { ...input, instrumentTemperatureK: finiteOrNull(input.instrumentTemperatureK), emissivitySetting: finiteOrNull(input.emissivitySetting) },
     ...(imager ? { imager } : {}),
   }
+}
+
+/**
+ * A stored result's inputs as {@link computePoint} takes them (an input the run has none of, null
+ * in the result, is NaN to the model), so a stored result recomputes exactly.
+ * @param inputs - `PointResult.inputs`
+ * @returns the computation input
+ */
+export function pointInputFromStored(inputs: PointResult['inputs']): PointComputationInput {
+  return { ...inputs, instrumentTemperatureK: inputs.instrumentTemperatureK ?? Number.NaN, emissivitySetting: inputs.emissivitySetting ?? Number.NaN }
+}
+
+function finiteOrNull(v: number): number | null {
+  return Number.isFinite(v) ? v : null
 }

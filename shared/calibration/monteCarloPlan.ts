@@ -157,8 +157,8 @@ export function monteCarloPlan(result: PointResult): MonteCarloPlan {
     certificationReflectedTemperatureK: radiance ? radiance.reflectedTemperatureK : Number.NaN,
     sourceEmissivity: i.sourceEmissivity,
     reflectedTemperatureK: i.reflectedTemperatureK,
-    instrumentTemperatureK: i.instrumentTemperatureK,
-    emissivitySetting: i.emissivitySetting,
+    instrumentTemperatureK: i.instrumentTemperatureK ?? Number.NaN,
+    emissivitySetting: i.emissivitySetting ?? Number.NaN,
   }
   const notes: string[] = []
   const outputTerms: MonteCarloInput[] = []

@@ -312,7 +312,11 @@ export interface PointResult {
   rounded: { error: number, uncertainty: number, errorText: string, uncertaintyText: string }
   conformity: PointConformity
   engineVersion: string
-  inputs: PointComputationInput
+  /**
+   * The inputs as computed. The instrument temperature and emissivity setting are null where the
+   * run has none (a ratio pyrometer's model takes neither).
+   */
+  inputs: Omit<PointComputationInput, 'instrumentTemperatureK' | 'emissivitySetting'> & { instrumentTemperatureK: number | null, emissivitySetting: number | null }
   /** A thermal imager's point: ROI statistics, uniformity and NETD (engine 1.3.0). */
   imager?: ImagerPointResult
 }

@@ -292,7 +292,7 @@ describe('a ratio pyrometer’s run to a signed certificate', () => {
     if (hasPdftotext) {
       const text = pdfText(await pdfOf(quality, cert.id))
       for (const s of ['Ratio pyrometer', 'Band 1 0.95–1 µm', 'Band 2 1–1.05 µm', 'Emissivity-ratio setting 1.020', 'ratio (two-colour) pyrometer',
-        `${cavity.assetTag} ε1 = 0.8825 in band 1, ε2 = 0.8775 in band 2`, 'used in the two-colour model is 0.8825 in band 1 and 0.8775 in band 2']) {
+        `${cavity.assetTag} ε1 = 0.8825 in band 1, ε2 = 0.8775 in band 2`, 'model is 0.8825 in band 1 and 0.8775 in band 2']) {
         expect(text, s).toContain(s)
       }
       expect(text).not.toContain('Emissivity setting 0.950')

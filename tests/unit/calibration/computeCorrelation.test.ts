@@ -2,7 +2,7 @@
 // (JCGM 106:2012, 7.4), against hand arithmetic and an independent erf (mathjs).
 import { erf } from 'mathjs'
 import { describe, expect, it } from 'vitest'
-import { computePoint } from '../../../shared/calibration/compute'
+import { computePoint, pointInputFromStored } from '../../../shared/calibration/compute'
 import { EngineInputError } from '../../../shared/radiometry/errors'
 import type { PointComputationInput, TemplateComponent } from '../../../shared/types/runs'
 
@@ -39,7 +39,7 @@ describe('correlated template components (GUM 5.2.2)', () => {
     const plain = computePoint(base({ template: [comp({ name: 'a', value: 0.03 }), comp({ name: 'b', value: 0.04 })] }))
     expect(Math.abs(plain.budget.combinedStandardUncertaintyK - Math.sqrt(0.0025 + 0.005 + 0.01 / 12))).toBeLessThan(1e-12)
     expect(plain.budget.covarianceK2).toBeUndefined()
-    expect(computePoint(r.inputs).budget.combinedStandardUncertaintyK).toBe(r.budget.combinedStandardUncertaintyK)
+    expect(computePoint(pointInputFromStored(r.inputs)).budget.combinedStandardUncertaintyK).toBe(r.budget.combinedStandardUncertaintyK)
   })
 
   it('rejects correlations that do not name two template components', () => {

@@ -5,7 +5,7 @@
 // hand arithmetic written beside each check.
 import { describe, expect, it } from 'vitest'
 
-import { computePoint } from '../../../shared/calibration/compute'
+import { computePoint, pointInputFromStored } from '../../../shared/calibration/compute'
 import { monteCarloPlan, monteCarloPlanInputs, planReadingModel } from '../../../shared/calibration/monteCarloPlan'
 import { bandSpanUm, emissivityForBand, spotFit, spotProblem, tableMean } from '../../../shared/calibration/setup'
 import { EngineInputError } from '../../../shared/radiometry/errors'
@@ -181,7 +181,7 @@ describe('budget lines name their origin', () => {
     expect(r.budget.components[1]!.standardUncertainty).toBe(0.15)
     expect(r.budget.notes[0]).toBe('Spot 25.0 mm within 150 mm')
     // the stored inputs recompute the same result
-    expect(computePoint(r.inputs)).toEqual(r)
+    expect(computePoint(pointInputFromStored(r.inputs))).toEqual(r)
   })
 })
 
