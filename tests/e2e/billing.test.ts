@@ -54,8 +54,8 @@ beforeAll(async () => {
   quality = await signedIn('quality')
   customer = await signedIn('customer')
   today = (await customer.get('/api/settings/today')).body.today
-  // A handheld of the customer's own, with nothing asked for it yet.
-  instrument = await makeInstrument(tech, await organizationOf(customer), { maker: 'Ormsby Radiometrics', model: 'Handheld 8' })
+  // An instrument of the customer's own, with nothing asked for it yet.
+  instrument = await makeInstrument(tech, await organizationOf(customer))
 })
 afterAll(async () => {
   await browser?.close()
@@ -96,7 +96,7 @@ describe('from request to payment', () => {
     await page.getByTestId('prepare-quote').click()
     await page.waitForURL(/\/quotes\/\d+$/)
     quoteId = Number(new URL(page.url()).pathname.split('/').pop())
-    expect(await page.getByTestId('billing-lines').textContent()).toMatch(/Calibration of Ormsby Radiometrics Handheld 8[\s\S]*up to 3 points[\s\S]*£180\.00/)
+    expect(await page.getByTestId('billing-lines').textContent()).toMatch(/Calibration of Ormsby Radiometrics Spot 8[\s\S]*up to 3 points[\s\S]*£180\.00/)
     await page.getByTestId('edit-quote').click()
     await page.getByTestId('add-express').click()
     await expect.poll(() => page.getByTestId('editor-total').textContent()).toMatch(/Net £270\.00 · total with tax £324\.00/)
