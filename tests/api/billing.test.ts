@@ -12,8 +12,8 @@ import { signatureFor } from '../../scripts/lib/paymentFake'
 import type { AuditEventDTO, Page } from '../../shared/types'
 import type { InvoiceDTO, OrderDTO, PriceListsDTO, QuoteDTO } from '../../shared/types/billing'
 import type { OutboxMessageDTO } from '../../shared/types/mail'
-import { makeCustomer, makeInstrument, makeProcedure, organizationOf } from '../support/factories'
-import { Client, signedIn, unique } from '../support/http'
+import { equipmentId, issueCertificate, makeCustomer, makeInstrument, makeProcedure, organizationOf, pointOn } from '../support/factories'
+import { Client, DEMO_PASSWORD, signedIn, unique } from '../support/http'
 
 const PAYMENT_URL = process.env.BANDLIGHT_TEST_PAYMENT_URL ?? ''
 const WEBHOOK_SECRET = process.env.STRIPE_WEBHOOK_SECRET ?? ''
@@ -384,5 +384,72 @@ describe('the books', () => {
     expect(sent).toHaveLength(1)
     expect(sent[0]!.subject).toMatch(/overdue/i)
     expect(sent[0]!.recipients.length).toBeGreaterThan(0)
+  })
+})
+
+describe('an order followed from receipt to return, invoiced by its certificate', () => {
+  it('the certificate issues the invoice; its withdrawal issues a credit note for all of it; the return is recorded with the tracking reference and mailed', async () => {
+    const { order } = await placedOrder(customer, ownOrg)
+    const today = (await customer.get('/api/settings/today')).body.today as string
+    const request = (await tech.get(`/api/requests/${order.requestId}`)).body
+    // Accepting the quote agreed the terms: the lab accepts the request into work.
+    expect(request.status).toBe('agreed')
+    const accepted = await tech.post(`/api/requests/${order.requestId}/accept`, { version: request.version, calibrationDate: today })
+    expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
+    const runId = accepted.body.runIds[0] as number
+    expect((await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body).toMatchObject({ stage: 'awaiting', items: [{ receivedOn: null, runId: null, certificate: null }] })
+
+    const receipt = await tech.post(`/api/runs/${runId}/receipt`, { receivedOn: today, packaging: 'Maker’s case, intact', condition: 'No visible damage' })
+    expect(receipt.status, JSON.stringify(receipt.body)).toBe(200)
+    expect((await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body).toMatchObject({ stage: 'received', items: [{ receivedOn: today, runId: null }] })
+    const header = await tech.patch(`/api/runs/${runId}`, { version: receipt.body.version, ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.45 })
+    expect(header.status, JSON.stringify(header.body)).toBe(200)
+    const plate = await equipmentId(tech, 'BB-FP-01')
+    for (const k of [273.15, 323.15, 373.15]) expect((await tech.post(`/api/runs/${runId}/points`, pointOn(plate, k))).status).toBe(201)
+    expect((await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body.stage).toBe('in-calibration')
+    const submitted = await tech.post(`/api/runs/${runId}/submit`, { version: (await tech.get(`/api/runs/${runId}`)).body.version })
+    expect(submitted.status, JSON.stringify(submitted.body)).toBe(200)
+    expect((await quality.post(`/api/runs/${runId}/approve`, { version: submitted.body.version })).status).toBe(200)
+    expect((await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body.stage).toBe('in-review')
+    expect((await admin.get<OrderDTO>(`/api/orders/${order.id}`)).body.invoice).toBeNull()
+
+    const cert = await issueCertificate(quality, runId)
+    expect(cert.status, JSON.stringify(cert.body)).toBe(201)
+    const certified = (await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body
+    expect(certified).toMatchObject({ stage: 'certified', items: [{ certificate: { id: cert.body.id, number: cert.body.number, status: 'valid' } }], invoice: { status: 'open' } })
+    expect(certified.steps.map(st => [st.stage, st.date])).toEqual([['received', today], ['in-calibration', today], ['in-review', today], ['certified', today], ['returned', null]])
+    const invoice = (await customer.get<InvoiceDTO>(`/api/invoices/${certified.invoice!.id}`)).body
+    expect(invoice).toMatchObject({ origin: 'automatic', issueDate: today, grossMinor: 20400, status: 'open', purchaseOrder: certified.purchaseOrder })
+    const issuedMail = (await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=invoice-issued&pageSize=200')).body.rows.filter(m => m.subject === `Invoice ${invoice.number} for order ${order.number}`)
+    expect(issuedMail).toHaveLength(1)
+    // Nothing is invoiced twice.
+    expect((await admin.post(`/api/orders/${order.id}/invoice`, { version: certified.version })).status).toBe(409)
+
+    // The certificate is withdrawn: its calibration is not charged, in full.
+    const withdrawn = await quality.post(`/api/certificates/${cert.body.id}/withdraw`, { reason: 'Issued against the wrong purchase order', password: DEMO_PASSWORD })
+    expect(withdrawn.status, JSON.stringify(withdrawn.body)).toBe(200)
+    const credited = (await customer.get<InvoiceDTO>(`/api/invoices/${invoice.id}`)).body
+    expect(credited).toMatchObject({ status: 'credited', creditedMinor: 20400, balanceMinor: 0, canPayByCard: false })
+    expect(credited.creditNotes).toHaveLength(1)
+    expect(credited.creditNotes[0]).toMatchObject({ cause: 'withdrawal', grossMinor: 20400 })
+    expect(credited.creditNotes[0]!.reason).toContain(`Certificate ${cert.body.number} was withdrawn`)
+    expect((await customer.get(`/api/credit-notes/${credited.creditNotes[0]!.id}/pdf`)).status).toBe(200)
+    expect((await customer.post(`/api/invoices/${invoice.id}/checkout`)).status).toBe(409)
+
+    // The instruments go back: the customer reads the tracking reference and is told by mail; customers cannot record it.
+    expect((await customer.post(`/api/orders/${order.id}/return`, { version: certified.version, returnedOn: today, trackingReference: 'X' })).status).toBe(403)
+    const tracking = unique('RC-')
+    const returned = await tech.post<OrderDTO>(`/api/orders/${order.id}/return`, { version: certified.version, returnedOn: today, carrier: 'Ridgeway Couriers', trackingReference: tracking })
+    expect(returned.status, JSON.stringify(returned.body)).toBe(200)
+    expect((await customer.get<OrderDTO>(`/api/orders/${order.id}`)).body).toMatchObject({ stage: 'returned', returnedOn: today, carrier: 'Ridgeway Couriers', trackingReference: tracking })
+    const back = (await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=order-returned&pageSize=200')).body.rows.filter(m => m.text.includes(tracking))
+    expect(back).toHaveLength(1)
+    expect(back[0]!.recipients).toContain('customer@bandlight.test')
+    const received = (await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=order-received&pageSize=200')).body.rows.filter(m => m.subject.startsWith(`Order ${order.number}:`))
+    expect(received).toHaveLength(1)
+    // A return in the future is refused, naming the field.
+    const future = await tech.post(`/api/orders/${order.id}/return`, { version: returned.body.version, returnedOn: '2999-01-01', trackingReference: tracking })
+    expect(future.status).toBe(400)
+    expect(future.body.data.fields).toHaveProperty('returnedOn')
   })
 })
