@@ -3,9 +3,10 @@
 // price list; the customer accepts with a purchase-order number (the order); the lab accepts the
 // request into work and records the receipt (the customer follows the order); the run is measured,
 // reviewed and certified; the invoice follows the certificate and its mail reaches the local SMTP
-// server; the customer's card is declined on the hosted page (still unpaid), then paid (paid for
-// both sides); the provider's event delivered again changes nothing. The readings and the run's
-// review go through the API (the run pages have their own browser tests, record-truth.test.ts).
+// server; the instrument goes back with a tracking reference; the customer's card is declined on
+// the hosted page (still unpaid), then paid (paid for both sides); the provider's event delivered
+// again changes nothing. The readings and the run's review go through the API (the run pages have
+// their own browser tests, record-truth.test.ts).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import type { InvoiceDTO, OrderDTO } from '../../shared/types/billing'
@@ -168,7 +169,7 @@ describe('from request to payment', () => {
     await signOut(page)
   })
 
-  it('measured, reviewed and certified; the invoice follows the certificate and its mail arrives with the PDF', async () => {
+  it('measured, reviewed and certified; the invoice follows the certificate and its mail arrives with the PDF; the instrument goes back', async () => {
     const { page } = browser
     const run = (await tech.get(`/api/runs/${runId}`)).body
     const header = await tech.patch(`/api/runs/${runId}`, { version: run.version, ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.45 })
@@ -192,9 +193,23 @@ describe('from request to payment', () => {
     await page.getByTestId('sign-submit').click()
     await page.waitForSelector('[data-testid="certificate-number"]')
     await signOut(page)
+    expect((await customer.get<OrderDTO>(`/api/orders/${orderId}`)).body.stage).toBe('certified')
+
+    // The instrument goes back with the carrier's tracking reference.
+    const tracking = unique('RC-')
+    await signIn(page, DEMO_ACCOUNTS.technician)
+    await page.goto(`${BASE_URL}/orders/${orderId}`)
+    await page.getByTestId('record-return').click()
+    await page.locator('#carrier').fill('Ridgeway Couriers')
+    await page.locator('#trackingReference').fill(tracking)
+    await page.getByTestId('confirm-return').click()
+    await expect.poll(() => page.getByTestId('tracking-reference').textContent()).toBe(tracking)
+    expect(await page.getByTestId('return-note').textContent()).toMatch(new RegExp(`Sent back on ${today} with Ridgeway Couriers`))
+    await signOut(page)
 
     const order = (await admin.get<OrderDTO>(`/api/orders/${orderId}`)).body
-    expect(order.stage).toBe('certified')
+    expect(order).toMatchObject({ stage: 'returned', trackingReference: tracking })
+    await mailArrived(new RegExp(`^Order ${order.number}: your instruments are on their way back$`))
     expect(order.invoice).toMatchObject({ status: 'open' })
     invoiceId = order.invoice!.id
     const mail = await mailArrived(new RegExp(`^Invoice ${order.invoice!.number} for order ${order.number}$`))
