@@ -1,27 +1,21 @@
 /**
- * All benchmarks: `npm run bench` (node --import tsx scripts/bench/index.ts [--quick]).
- * Each benchmark module exports a run function that prints its own table; add new ones here.
- * Figures and ratios against targets are printed; nothing here fails a build.
+ * All benchmarks: `npm run bench` (node --import tsx scripts/bench/index.ts [--quick] [--base=REV]).
+ * Each section (./section.ts) runs in a process of its own, in turn, and prints its own table;
+ * add new ones there. Figures and ratios against targets are printed; nothing here fails a build.
  */
-import { runCertificatesBench } from './certificates'
-import { runEngineBench } from './engine'
-import { runListingBench } from './listing'
-import { runMailBench } from './mail'
-import { runRegistersBench } from './registers'
-import { runRunsBench } from './runs'
-import { runServerBench } from './server'
+import { spawnSync } from 'node:child_process'
+import path from 'node:path'
+import { fileURLToPath } from 'node:url'
 
-const quick = process.argv.includes('--quick')
-runEngineBench({ quick })
-console.log('')
-await runRegistersBench({ quick })
-console.log('')
-await runRunsBench({ quick })
-console.log('')
-await runCertificatesBench({ quick })
-console.log('')
-await runMailBench({ quick })
-console.log('')
-await runServerBench({ quick })
-console.log('')
-await runListingBench({ quick })
+const here = path.dirname(fileURLToPath(import.meta.url))
+const ORDER = ['engine', 'registers', 'runs', 'certificates', 'mail', 'server', 'listing']
+let failed = 0
+for (const name of ORDER) {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', path.join(here, 'section.ts'), name, ...process.argv.slice(2)], { stdio: 'inherit' })
+  if (r.status !== 0) {
+    failed++
+    console.log(`(${name} section ended with status ${r.status ?? r.signal})`)
+  }
+  console.log('')
+}
+process.exit(failed ? 1 : 0)
