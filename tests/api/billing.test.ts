@@ -453,3 +453,58 @@ describe('an order followed from receipt to return, invoiced by its certificate'
     expect(future.body.data.fields).toHaveProperty('returnedOn')
   })
 })
+
+/** The order's one instrument accepted into work, received, measured at three points, reviewed and certified: its run and certificate. */
+async function certify(order: OrderDTO): Promise<{ runId: number, cert: { id: number, number: string } }> {
+  const today = (await customer.get('/api/settings/today')).body.today as string
+  const request = (await tech.get(`/api/requests/${order.requestId}`)).body
+  const accepted = await tech.post(`/api/requests/${order.requestId}/accept`, { version: request.version, calibrationDate: today })
+  expect(accepted.status, JSON.stringify(accepted.body)).toBe(200)
+  const runId = accepted.body.runIds[0] as number
+  const receipt = await tech.post(`/api/runs/${runId}/receipt`, { receivedOn: today, packaging: 'Maker’s case, intact', condition: 'No visible damage' })
+  expect(receipt.status, JSON.stringify(receipt.body)).toBe(200)
+  const header = await tech.patch(`/api/runs/${runId}`, { version: receipt.body.version, ambientTemperatureK: 296.15, relativeHumidityPct: 40, distanceMm: 300, reflectedTemperatureK: 296.15, instrumentTemperatureK: 296.45 })
+  expect(header.status, JSON.stringify(header.body)).toBe(200)
+  const plate = await equipmentId(tech, 'BB-FP-01')
+  for (const k of [273.15, 323.15, 373.15]) expect((await tech.post(`/api/runs/${runId}/points`, pointOn(plate, k))).status).toBe(201)
+  const submitted = await tech.post(`/api/runs/${runId}/submit`, { version: (await tech.get(`/api/runs/${runId}`)).body.version })
+  expect(submitted.status, JSON.stringify(submitted.body)).toBe(200)
+  expect((await quality.post(`/api/runs/${runId}/approve`, { version: submitted.body.version })).status).toBe(200)
+  const cert = await issueCertificate(quality, runId)
+  expect(cert.status, JSON.stringify(cert.body)).toBe(201)
+  return { runId, cert: cert.body }
+}
+
+describe('credit notes follow amendments', () => {
+  it('an amendment that certifies fewer points than invoiced credits the additional points no longer certified, once', async () => {
+    const { order } = await placedOrder(customer, ownOrg)
+    const { cert } = await certify(order)
+    const invoiceId = (await admin.get<OrderDTO>(`/api/orders/${order.id}`)).body.invoice!.id
+    const invoice = (await admin.get<InvoiceDTO>(`/api/invoices/${invoiceId}`)).body
+    // Three points certified: the calibration with 2 points and 1 additional point.
+    expect(invoice.lines.map(l => [l.kind, l.quantity])).toEqual([['calibration', 1], ['extra-points', 1]])
+
+    // Reopened, one point voided, approved and amended: 2 points certified.
+    const reopened = await quality.post(`/api/certificates/${cert.id}/reopen`, { reason: 'The 100 °C point was taken before the plate had settled' })
+    expect(reopened.status, JSON.stringify(reopened.body)).toBe(201)
+    const rev = reopened.body
+    const third = rev.points[2]
+    const voided = await tech.post(`/api/runs/${rev.id}/points/${third.id}/void`, { version: third.version, reason: 'Taken before the plate had settled' })
+    expect(voided.status, JSON.stringify(voided.body)).toBe(200)
+    const sent = await tech.post(`/api/runs/${rev.id}/submit`, { version: (await tech.get(`/api/runs/${rev.id}`)).body.version })
+    expect(sent.status, JSON.stringify(sent.body)).toBe(200)
+    expect((await quality.post(`/api/runs/${rev.id}/approve`, { version: sent.body.version })).status).toBe(200)
+    const amended = await quality.post(`/api/certificates/${cert.id}/amend`, { password: DEMO_PASSWORD, signatoryFunction: 'Quality manager' })
+    expect(amended.status, JSON.stringify(amended.body)).toBe(201)
+
+    const after = (await customer.get<InvoiceDTO>(`/api/invoices/${invoiceId}`)).body
+    expect(after.creditNotes).toHaveLength(1)
+    expect(after.creditNotes[0]).toMatchObject({ cause: 'amendment', netMinor: 2000, taxMinor: 400, grossMinor: 2400 })
+    expect(after.creditNotes[0]!.lines.map(l => [l.kind, l.quantity, l.invoiceLine])).toEqual([['extra-points', 1, 1]])
+    expect(after.creditNotes[0]!.reason).toContain(`Certificate ${amended.body.number} was amended with fewer calibration points than invoiced`)
+    expect(after).toMatchObject({ status: 'open', creditedMinor: 2400, balanceMinor: 18000 })
+    const mail = (await admin.get<Page<OutboxMessageDTO>>('/api/admin/mail/outbox?kind=credit-note-issued&pageSize=200')).body.rows.filter(m => m.subject.includes(`against invoice ${invoice.number}`))
+    expect(mail).toHaveLength(1)
+  })
+})
+
