@@ -16,9 +16,9 @@
  *   than three characters (no trigram in it) is looked for with LIKE '%…%' over the table.
  */
 import { Op, QueryTypes, literal, type Order } from 'sequelize'
-import type { InstrumentKind, InstrumentStatus } from '#shared/registers/constants'
 import type { InstrumentQuery } from '#shared/schemas/registerQuery'
 import type { AccuracySpec } from '#shared/schemas/instrument'
+import type { InstrumentDTO } from '#shared/types'
 import { Instrument } from '#server/models/Instrument'
 import { CountCache } from '#server/utils/changeCounters'
 import { onPostgres, sequelize } from '#server/utils/db'
@@ -118,42 +118,8 @@ export async function queryInstruments(o: InstrumentListOptions): Promise<{ rows
   return { rows: ids.map(id => byId.get(id)).filter((r): r is Instrument => !!r), total }
 }
 
-/** An instrument as the list reads it: plain values, with the names the list shows. */
-export interface InstrumentListRow {
-  id: number
-  organizationId: number
-  organizationName: string | null
-  serial: string
-  assetTag: string | null
-  maker: string
-  model: string
-  kind: InstrumentKind
-  bandLambda1Um: number | null
-  bandLambda2Um: number | null
-  spectralResponseId: number | null
-  spectralResponseName: string | null
-  band2Lambda1Um: number | null
-  band2Lambda2Um: number | null
-  band2SpectralResponseId: number | null
-  band2SpectralResponseName: string | null
-  emissivityRatioSetting: number | null
-  distanceToSpot: number | null
-  rangeMinK: number
-  rangeMaxK: number
-  defaultEmissivity: number
-  resolutionK: number
-  accuracy: AccuracySpec
-  calibrationIntervalMonths: number
-  status: InstrumentStatus
-  nextDueDate: string | null
-  photoUploadId: number | null
-  notes: string | null
-  archived: boolean
-  version: number
-  /** ISO 8601, UTC. */
-  createdAt: string
-  updatedAt: string
-}
+/** An instrument as the list reads it: plain values, with the names the list shows (the DTO without the past-due flag). */
+export type InstrumentListRow = Omit<InstrumentDTO, 'pastDue'>
 
 const LIST_COLUMNS = ['id', 'organizationId', 'serial', 'assetTag', 'maker', 'model', 'kind', 'bandLambda1Um', 'bandLambda2Um', 'spectralResponseId',
   'band2Lambda1Um', 'band2Lambda2Um', 'band2SpectralResponseId', 'emissivityRatioSetting', 'distanceToSpot', 'rangeMinK', 'rangeMaxK', 'defaultEmissivity', 'resolutionK', 'accuracy', 'calibrationIntervalMonths', 'status', 'nextDueDate',
