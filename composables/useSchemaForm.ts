@@ -6,10 +6,11 @@
  * user works in, so "25 °C", "298.15 K" or "900 nm" all mean what they say and letters are refused
  * in words. Every message names the field's label and speaks in the user's unit
  * (./forms/messages.ts). Field components (`components/form/*`) find the form by injection.
+ * The unit parser (shared/quantities with mathjs's unit machinery) is loaded by the first check of
+ * a form that has number boxes, so pages whose forms have none (sign-in) never download it.
  */
 import { useForm, type GenericObject, type TypedSchema } from 'vee-validate'
 import type { z } from 'zod'
-import { parseQuantity } from '#shared/quantities'
 import type { TemperatureUnit } from '#shared/units'
 import { apiProblem, labelled } from './forms/api'
 import { SCHEMA_FORM, type SchemaFormContext } from './forms/context'
@@ -29,6 +30,17 @@ export interface SchemaFormOptions<S extends z.ZodType, V extends GenericObject>
   onSubmit?: (body: z.output<S>) => unknown
 }
 
+type Quantities = typeof import('#shared/quantities')
+let quantities: Promise<Quantities> | null = null
+/** shared/quantities, loaded once, on first need (a separate chunk in the browser). */
+function loadQuantities(): Promise<Quantities> {
+  // a failed download is tried again at the next check
+  return (quantities ??= import('#shared/quantities').catch((err: unknown) => {
+    quantities = null
+    throw err
+  }))
+}
+
 const isPlainObject = (v: unknown): v is Record<string, unknown> =>
   !!v && typeof v === 'object' && !Array.isArray(v) && Object.getPrototypeOf(v) === Object.prototype
 
@@ -38,16 +50,16 @@ export function useSchemaForm<S extends z.ZodType, V extends GenericObject>(opts
   const message = ref('')
 
   /** Every number box read into the schema's unit; what cannot be read is noted in `problems`. */
-  function read(value: unknown, path: string, problems: Record<string, string>): unknown {
-    if (Array.isArray(value)) return value.map((v, i) => read(v, `${path}[${i}]`, problems))
-    if (isPlainObject(value)) return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, read(v, path ? `${path}.${k}` : k, problems)]))
+  function read(value: unknown, path: string, problems: Record<string, string>, q: Quantities | null): unknown {
+    if (Array.isArray(value)) return value.map((v, i) => read(v, `${path}[${i}]`, problems, q))
+    if (isPlainObject(value)) return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, read(v, path ? `${path}.${k}` : k, problems, q)]))
     const spec = specFor(specs(), path)
     if (!spec.quantity) return value
     const text = value === null || value === undefined ? '' : String(value)
     if (text.trim() === '') return spec.optional ? null : Number.NaN
     const { shown, schema } = unitsOf(spec, temperatureUnit)
     try {
-      return parseQuantity(text, spec.quantity, shown, schema)
+      return q!.parseQuantity(text, spec.quantity, shown, schema)
     }
     catch (err) {
       problems[path] = labelled(spec.label, (err as Error).message)
@@ -78,7 +90,8 @@ export function useSchemaForm<S extends z.ZodType, V extends GenericObject>(opts
     __type: 'VVTypedSchema',
     async parse(values) {
       const problems: Record<string, string> = {}
-      const numbers = read(values, '', problems) as V
+      const q = Object.values(specs()).some(s => typeof s !== 'string' && !!s.quantity) ? await loadQuantities() : null
+      const numbers = read(values, '', problems, q) as V
       const body = opts.toBody ? opts.toBody(numbers, values) : numbers
       const result = toValue(opts.schema).safeParse(body)
       const errors = { ...(result.success ? {} : issueMessages(result.error, specs(), temperatureUnit)), ...problems }

@@ -105,3 +105,13 @@ export function kelvinFixed(kelvin: number, decimals: number): string {
   const digits = (neg ? -sum : sum).toString().padStart(places + 1, '0')
   return `${neg ? '-' : ''}${digits.slice(0, -places)}.${digits.slice(-places)}`
 }
+
+/**
+ * A number for a box, with at most `decimals` decimals and no trailing zeros (25, 298.15, 0.9).
+ *
+ * @example formatNumber(298.15000000000003) // '298.15'
+ */
+export function formatNumber(value: number, decimals = 6): string {
+  if (!Number.isFinite(value)) return ''
+  return String(Number(value.toFixed(decimals)))
+}

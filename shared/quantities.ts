@@ -12,6 +12,9 @@
  * @example parseQuantity('900 nm', 'wavelength', 'µm') // 0.9
  */
 import { create, unitDependencies } from 'mathjs'
+import { formatNumber } from './format'
+
+export { formatNumber }
 
 // Only the unit machinery of mathjs (its types list every factory as possibly missing).
 const math = create({ unitDependencies: unitDependencies! })
@@ -175,14 +178,4 @@ export function hasUnit(text: string): boolean {
   catch {
     return false
   }
-}
-
-/**
- * A number for a box, with at most `decimals` decimals and no trailing zeros (25, 298.15, 0.9).
- *
- * @example formatNumber(298.15000000000003) // '298.15'
- */
-export function formatNumber(value: number, decimals = 6): string {
-  if (!Number.isFinite(value)) return ''
-  return String(Number(value.toFixed(decimals)))
 }

@@ -5,9 +5,10 @@
  * Pure: the form layer (useSchemaForm) and its tests use it.
  */
 import type { z } from 'zod'
-import { convertQuantity, formatNumber, type QuantityKind } from '#shared/quantities'
+import { formatNumber } from '#shared/format'
+import type { QuantityKind } from '#shared/quantities'
 import { fieldName } from '#shared/schemas/errors'
-import { UNIT_SYMBOL, type TemperatureUnit } from '#shared/units'
+import { deltaFromKelvin, fromKelvin, UNIT_SYMBOL, type TemperatureUnit } from '#shared/units'
 
 /** What a field is called and what its box holds. */
 export interface FieldSpec {
@@ -87,11 +88,28 @@ export function humanize(message: string, specs: FieldSpecs = {}): string {
   return out.replace(/\b[a-z]+(?:[A-Z][a-z0-9]*)+\b/g, (m, offset: number) => (offset === 0 ? words(m) : midSentence(words(m))))
 }
 
+const TEMPERATURE_UNIT_OF: Record<string, TemperatureUnit> = { '°C': 'C', 'K': 'K', '°F': 'F' }
+
+/**
+ * A value in the schema's unit as the box shows it: the same unit, or kelvin in °C or °F (exact,
+ * shared/units.ts); null for any other pair (the bound is then stated in the schema's unit). Kept
+ * free of the unit parser so that forms without a quantity box do not load it.
+ */
+function shownValue(value: number, kind: QuantityKind, schema: string, shown: string): number | null {
+  if (shown === schema) return value
+  const unit = TEMPERATURE_UNIT_OF[shown]
+  if (schema !== 'K' || !unit) return null
+  if (kind === 'temperature') return fromKelvin(value, unit)
+  if (kind === 'temperatureDifference') return deltaFromKelvin(value, unit)
+  return null
+}
+
 /** A bound of a number field in the unit the user sees ("−73.15 °C", "0.5 µm", "1"). */
 function bound(value: number, spec: FieldSpec, temperatureUnit: TemperatureUnit): string {
   const { shown, schema } = unitsOf(spec, temperatureUnit)
   if (!spec.quantity || spec.quantity === 'number') return formatNumber(value)
-  const v = shown === schema ? value : convertQuantity(value, spec.quantity, schema, shown)
+  const v = shownValue(value, spec.quantity, schema, shown)
+  if (v === null) return `${formatNumber(value, 2).replace('-', '−')} ${schema}`.trim()
   return `${formatNumber(v, 2).replace('-', '−')} ${shown}`.trim()
 }
 

@@ -111,3 +111,35 @@ export async function runMailBench(opts: { quick?: boolean, rows?: number } = {}
 if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) {
   await runMailBench({ quick: process.argv.includes('--quick') })
 }
+
+/**
+ * The reminder scan of this tree beside the base tree's (./baseline.ts), in the same run: the base's
+ * own `scripts/bench/mail.ts` in a child process (its own modules and migrations), then this tree's.
+ * Prints both first-scan times and their ratio (target: this tree ≤ 0.5× the base, and ≤ 3 s).
+ * Without an unpacked base it prints this tree's figures only.
+ */
+export async function runMailBenchSideBySide(opts: { quick?: boolean } = {}): Promise<void> {
+  const { spawn } = await import('node:child_process')
+  const { baseRevFromArgs, findBaseTree } = await import('./baseline')
+  const base = findBaseTree(baseRevFromArgs())
+  let baseFirst: number | null = null
+  if (base) {
+    const out = await new Promise<string>((resolve) => {
+      const child = spawn(process.execPath, ['--import', 'tsx', path.join(base.dir, 'scripts/bench/mail.ts'), ...(opts.quick ? ['--quick'] : [])], { cwd: base.dir, stdio: ['ignore', 'pipe', 'inherit'] })
+      let text = ''
+      child.stdout.on('data', (d: Buffer) => (text += d.toString()))
+      child.on('exit', () => resolve(text))
+    })
+    const m = /first scan \(queues and logs\)\s+(\d+) ms/.exec(out)
+    baseFirst = m ? Number(m[1]) : null
+    console.log(`base ${base.rev.slice(0, 7)}:`)
+    console.log(out.trimEnd())
+  }
+  console.log('this tree:')
+  const mine = await runMailBench(opts)
+  if (baseFirst !== null) {
+    const ratio = mine.firstScanMs / baseFirst
+    console.log(`reminder scan, first run: this tree ${mine.firstScanMs.toFixed(0)} ms, base ${baseFirst} ms → ×${ratio.toFixed(2)} (target ≤ 0.5×: ${ratio <= 0.5 ? 'met' : 'MISSED'}; ≤ 3000 ms: ${mine.firstScanMs <= 3000 ? 'met' : 'MISSED'})`)
+  }
+  else console.log('(no base tree unpacked: `node --import tsx scripts/bench/baseline.ts` makes one for a side-by-side figure)')
+}

@@ -10,7 +10,7 @@ const SECTIONS: Record<string, (opts: { quick: boolean }) => unknown> = {
   registers: async o => (await import('./registers')).runRegistersBench(o),
   runs: async o => (await import('./runs')).runRunsBench(o),
   certificates: async o => (await import('./certificates')).runCertificatesBench(o),
-  mail: async o => (await import('./mail')).runMailBench(o),
+  mail: async o => (await import('./mail')).runMailBenchSideBySide(o),
   server: async o => (await import('./server')).runServerBench(o),
   listing: async o => (await import('./listing')).runListingBench(o),
 }
