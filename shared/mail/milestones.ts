@@ -89,16 +89,17 @@ export function isValidTimeZone(timeZone: string): boolean {
   }
 }
 
+// A formatter per time zone, made once: making one costs far more than using it (every list page asks
+// for the lab's date). An unknown zone throws when made and is not kept.
+const formatters = new Map<string, Intl.DateTimeFormat>()
+
 function zonedParts(instant: Date, timeZone: string): Record<string, string> {
-  const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    hourCycle: 'h23',
-  }).formatToParts(instant)
-  return Object.fromEntries(parts.map(p => [p.type, p.value]))
+  let format = formatters.get(timeZone)
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-GB', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', hourCycle: 'h23' })
+    formatters.set(timeZone, format)
+  }
+  return Object.fromEntries(format.formatToParts(instant).map(p => [p.type, p.value]))
 }
 
 /**

@@ -129,6 +129,9 @@ const LIST_COLUMNS = ['id', 'organizationId', 'serial', 'assetTag', 'maker', 'mo
 export function isoTimestamp(v: unknown): string {
   if (v instanceof Date) return v.toISOString()
   const s = String(v)
+  // the usual case, milliseconds and UTC, is already ISO 8601 but for two characters
+  const exact = /^(\d{4}-\d\d-\d\d) (\d\d:\d\d:\d\d\.\d{3}) \+00:00$/.exec(s)
+  if (exact) return `${exact[1]}T${exact[2]}Z`
   const m = /^(\d{4}-\d\d-\d\d) (\d\d:\d\d:\d\d(?:\.\d+)?) \+00:00$/.exec(s)
   return m ? new Date(`${m[1]}T${m[2]}Z`).toISOString() : new Date(s).toISOString()
 }

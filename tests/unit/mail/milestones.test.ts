@@ -48,6 +48,18 @@ describe('lab-local date and hour', () => {
     expect(labLocalDate(new Date('2027-03-01T07:00:00Z'), 'America/Los_Angeles')).toBe('2027-02-28')
     expect(labLocalDate(new Date('2027-03-01T08:00:00Z'), 'America/Los_Angeles')).toBe('2027-03-01')
   })
+
+  it('keeps each zone its own when zones alternate (one formatter per zone), and refuses an unknown zone every time', () => {
+    // offsets from the IANA tz database: Auckland UTC+13 in December (NZDT), Los Angeles UTC−8 (PST)
+    const at = new Date('2026-12-31T11:30:00Z')
+    for (let i = 0; i < 3; i++) {
+      expect(labLocalDate(at, 'Pacific/Auckland')).toBe('2027-01-01')
+      expect(labLocalDate(at, 'America/Los_Angeles')).toBe('2026-12-31')
+      expect(labLocalHour(at, 'Pacific/Auckland')).toBe(0)
+      expect(labLocalHour(at, 'America/Los_Angeles')).toBe(3)
+      expect(() => labLocalDate(at, 'Mars/Olympus_Mons')).toThrow(RangeError)
+    }
+  })
   it('takes the hour in the lab time zone, across daylight saving', () => {
     expect(labLocalHour(new Date('2026-01-15T06:05:00Z'), 'Europe/London')).toBe(6)
     expect(labLocalHour(new Date('2026-07-15T05:05:00Z'), 'Europe/London')).toBe(6)
