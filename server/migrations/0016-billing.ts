@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { createPgGuard, dialectOf, dropColumns, dropGuard, pgAnyChanged } from './lib'
+import { createGuard, dropColumns, dropGuard, pgAnyChanged, sqliteAnyChanged, type Guard } from './lib'
 
 /**
  * Billing, from request to payment: price lists (each save a new version, never changed), quotes
@@ -28,21 +28,20 @@ const stamps = {
 const INVOICE_FIXED = ['number', 'counterYear', 'sequence', 'orderId', 'organizationId', 'issueDate', 'dueDate', 'currency', 'taxRateBp', 'lines', 'netMinor', 'taxMinor', 'grossMinor', 'purchaseOrder', 'origin', 'pdfSha256', 'pdfSize', 'createdAt']
 const CREDIT_FIXED = ['number', 'counterYear', 'sequence', 'invoiceId', 'organizationId', 'issueDate', 'cause', 'reason', 'certificateId', 'lines', 'netMinor', 'taxMinor', 'grossMinor', 'currency', 'pdfSha256', 'pdfSize', 'createdAt']
 
-interface Guard { name: string, table: string, event: 'INSERT' | 'UPDATE' | 'DELETE', message: string, sqlite?: string, pg?: string }
 
 const GUARDS: Guard[] = [
   { name: 'billing_counters_no_delete', table: 'billing_counters', event: 'DELETE', message: 'billing counters cannot be deleted' },
   { name: 'billing_counters_step', table: 'billing_counters', event: 'UPDATE', message: 'invoice and credit-note numbers advance by one: no gaps, no reuse',
-    sqlite: 'NEW.series IS NOT OLD.series OR NEW.year IS NOT OLD.year OR NEW."lastSequence" IS NOT OLD."lastSequence" + 1',
-    pg: 'NEW.series IS DISTINCT FROM OLD.series OR NEW.year IS DISTINCT FROM OLD.year OR NEW."lastSequence" IS DISTINCT FROM OLD."lastSequence" + 1' },
+    sqliteWhen: 'NEW.series IS NOT OLD.series OR NEW.year IS NOT OLD.year OR NEW."lastSequence" IS NOT OLD."lastSequence" + 1',
+    when: 'NEW.series IS DISTINCT FROM OLD.series OR NEW.year IS DISTINCT FROM OLD.year OR NEW."lastSequence" IS DISTINCT FROM OLD."lastSequence" + 1' },
   { name: 'billing_counters_start', table: 'billing_counters', event: 'INSERT', message: 'a billing counter starts at 1',
-    sqlite: 'NEW."lastSequence" IS NOT 1', pg: 'NEW."lastSequence" IS DISTINCT FROM 1' },
+    sqliteWhen: 'NEW."lastSequence" IS NOT 1', when: 'NEW."lastSequence" IS DISTINCT FROM 1' },
   { name: 'invoices_no_delete', table: 'invoices', event: 'DELETE', message: 'invoices cannot be deleted: credit them' },
   { name: 'invoices_fixed', table: 'invoices', event: 'UPDATE', message: 'an issued invoice cannot change: issue a credit note',
-    sqlite: INVOICE_FIXED.map(c => `NEW."${c}" IS NOT OLD."${c}"`).join(' OR '), pg: pgAnyChanged(INVOICE_FIXED) },
+    sqliteWhen: sqliteAnyChanged(INVOICE_FIXED), when: pgAnyChanged(INVOICE_FIXED) },
   { name: 'credit_notes_no_delete', table: 'credit_notes', event: 'DELETE', message: 'credit notes cannot be deleted' },
   { name: 'credit_notes_fixed', table: 'credit_notes', event: 'UPDATE', message: 'an issued credit note cannot change',
-    sqlite: CREDIT_FIXED.map(c => `NEW."${c}" IS NOT OLD."${c}"`).join(' OR '), pg: pgAnyChanged(CREDIT_FIXED) },
+    sqliteWhen: sqliteAnyChanged(CREDIT_FIXED), when: pgAnyChanged(CREDIT_FIXED) },
   { name: 'price_lists_no_update', table: 'price_lists', event: 'UPDATE', message: 'a price list version cannot change: save a new version' },
   { name: 'price_lists_no_delete', table: 'price_lists', event: 'DELETE', message: 'price list versions cannot be deleted' },
   { name: 'payments_no_update', table: 'payments', event: 'UPDATE', message: 'a recorded payment cannot change' },
@@ -220,14 +219,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     createdAt: { type: DataTypes.DATE, allowNull: false },
   })
 
-  if (dialectOf(qi) === 'postgres') {
-    for (const g of GUARDS) await createPgGuard(qi, { name: g.name, table: g.table, event: g.event, message: g.message, when: g.pg })
-    return
-  }
-  for (const g of GUARDS) {
-    await qi.sequelize.query(`CREATE TRIGGER ${g.name} BEFORE ${g.event} ON ${g.table}${g.sqlite ? ` WHEN ${g.sqlite}` : ''}
-    BEGIN SELECT RAISE(ABORT, '${g.message}'); END`)
-  }
+  for (const g of GUARDS) await createGuard(qi, g)
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {

@@ -56,7 +56,26 @@ export async function allowNull(qi: QueryInterface, table: string, columns: read
   }
 }
 
-/** A row-level guard: a trigger that refuses a change to a table (PostgreSQL form). */
+/**
+ * An identifier of ours (a table, trigger or function name written in a migration), double-quoted.
+ * DDL cannot take bound parameters, so names are checked instead: anything but letters, digits and
+ * underscores is refused before it reaches SQL.
+ */
+export function sqlIdentifier(name: string): string {
+  if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(name)) throw new Error(`not a plain SQL identifier: ${JSON.stringify(name)}`)
+  return `"${name}"`
+}
+
+/** A text as an SQL string literal (quotes doubled), for the messages of guards. */
+export function sqlText(text: string): string {
+  return `'${text.replace(/'/g, "''")}'`
+}
+
+/**
+ * A row-level guard: a trigger that refuses a change to a table. `when` (PostgreSQL) and `sqliteWhen`
+ * are SQL conditions over OLD/NEW written in the migration itself (constant code, never input);
+ * omitted, the guard always refuses.
+ */
 export interface PgGuard {
   /** Name of the trigger and of its PL/pgSQL function. */
   name: string
@@ -67,6 +86,11 @@ export interface PgGuard {
   message: string
 }
 
+/** A guard for both engines: the PostgreSQL condition and SQLite's. */
+export interface Guard extends PgGuard {
+  sqliteWhen?: string
+}
+
 /**
  * PostgreSQL's counterpart of SQLite's `CREATE TRIGGER … BEGIN SELECT RAISE(ABORT, '…'); END`:
  * a PL/pgSQL function that raises the message when `when` holds, and a BEFORE … FOR EACH ROW
@@ -74,32 +98,44 @@ export interface PgGuard {
  * condition lives in the function.)
  */
 export async function createPgGuard(qi: QueryInterface, g: PgGuard): Promise<void> {
-  const message = g.message.replace(/'/g, "''")
-  await qi.sequelize.query(`CREATE OR REPLACE FUNCTION "${g.name}"() RETURNS trigger LANGUAGE plpgsql AS $guard$
+  const name = sqlIdentifier(g.name)
+  await qi.sequelize.query(`CREATE OR REPLACE FUNCTION ${name}() RETURNS trigger LANGUAGE plpgsql AS $guard$
 BEGIN
   IF ${g.when ?? 'TRUE'} THEN
-    RAISE EXCEPTION '${message}' USING ERRCODE = 'restrict_violation';
+    RAISE EXCEPTION ${sqlText(g.message)} USING ERRCODE = 'restrict_violation';
   END IF;
   IF TG_OP = 'DELETE' THEN RETURN OLD; END IF;
   RETURN NEW;
 END
 $guard$`)
-  await qi.sequelize.query(`CREATE TRIGGER "${g.name}" BEFORE ${g.event} ON "${g.table}" FOR EACH ROW EXECUTE FUNCTION "${g.name}"()`)
+  await qi.sequelize.query(`CREATE TRIGGER ${name} BEFORE ${g.event} ON ${sqlIdentifier(g.table)} FOR EACH ROW EXECUTE FUNCTION ${name}()`)
+}
+
+/** Create a guard on the engine of `qi`: the PostgreSQL function and trigger, or SQLite's RAISE(ABORT) trigger. */
+export async function createGuard(qi: QueryInterface, g: Guard): Promise<void> {
+  if (dialectOf(qi) === 'postgres') return createPgGuard(qi, g)
+  await qi.sequelize.query(`CREATE TRIGGER ${sqlIdentifier(g.name)} BEFORE ${g.event} ON ${sqlIdentifier(g.table)}${g.sqliteWhen ? ` WHEN ${g.sqliteWhen}` : ''}
+    BEGIN SELECT RAISE(ABORT, ${sqlText(g.message)}); END`)
 }
 
 /** Drop a guard on either engine (SQLite: the trigger; PostgreSQL: the trigger and its function). */
 export async function dropGuard(qi: QueryInterface, name: string, table: string): Promise<void> {
   if (dialectOf(qi) === 'postgres') {
-    await qi.sequelize.query(`DROP TRIGGER IF EXISTS "${name}" ON "${table}"`)
-    await qi.sequelize.query(`DROP FUNCTION IF EXISTS "${name}"()`)
+    await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${sqlIdentifier(name)} ON ${sqlIdentifier(table)}`)
+    await qi.sequelize.query(`DROP FUNCTION IF EXISTS ${sqlIdentifier(name)}()`)
     return
   }
-  await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${name}`)
+  await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${sqlIdentifier(name)}`)
 }
 
 /** PostgreSQL: a condition true when any of the columns differs between OLD and NEW (compared as text, so JSON columns compare too). */
 export function pgAnyChanged(columns: readonly string[]): string {
-  return columns.map(c => `NEW."${c}"::text IS DISTINCT FROM OLD."${c}"::text`).join(' OR ')
+  return columns.map(sqlIdentifier).map(c => `NEW.${c}::text IS DISTINCT FROM OLD.${c}::text`).join(' OR ')
+}
+
+/** SQLite: a condition true when any of the columns differs between OLD and NEW. */
+export function sqliteAnyChanged(columns: readonly string[]): string {
+  return columns.map(sqlIdentifier).map(c => `NEW.${c} IS NOT OLD.${c}`).join(' OR ')
 }
 
 /**
