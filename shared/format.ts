@@ -115,3 +115,14 @@ export function formatNumber(value: number, decimals = 6): string {
   if (!Number.isFinite(value)) return ''
   return String(Number(value.toFixed(decimals)))
 }
+
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
+
+/**
+ * A date (`YYYY-MM-DD`, or the start of an ISO timestamp) written out as documents print it.
+ * @example longDate('2026-12-02') // '2 December 2026'
+ */
+export function longDate(iso: string): string {
+  const [y, m, d] = iso.slice(0, 10).split('-').map(Number)
+  return `${d} ${MONTHS[m! - 1]} ${y}`
+}

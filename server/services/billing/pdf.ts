@@ -6,9 +6,9 @@
  * the laboratory's message, the reason for a credit). `billingPdf(data)` takes plain data and
  * returns the bytes, so it is tested without HTTP or a database.
  */
-import PDFDocument from 'pdfkit'
 import { formatMoney } from '#shared/billing/money'
-import { certificateFonts, type CertificateFonts } from '#server/services/certificates/pdf'
+import { longDate } from '#shared/format'
+import { certificateFonts, openLabPdf, type CertificateFonts } from '#server/services/certificates/pdf'
 
 export type BillingDocumentKind = 'quote' | 'invoice' | 'credit-note'
 
@@ -43,12 +43,6 @@ const CONTENT_W = PAGE.width - MARGIN.left - MARGIN.right
 const BOTTOM = PAGE.height - MARGIN.bottom
 
 type Doc = PDFKit.PDFDocument
-
-function longDate(iso: string): string {
-  const [y, m, d] = iso.slice(0, 10).split('-').map(Number)
-  const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
-  return `${d} ${months[m! - 1]} ${y}`
-}
 
 /** A date fact written out ("2 December 2026"), other facts as given. */
 export function factDate(iso: string | null): string {
@@ -244,23 +238,10 @@ function frame(doc: Doc, d: BillingDocumentData): void {
  * @returns the PDF bytes
  */
 export async function billingPdf(data: BillingDocumentData, fonts?: CertificateFonts): Promise<Buffer> {
-  const f = fonts ?? await certificateFonts()
-  const doc = new PDFDocument({
-    size: 'A4',
-    margins: { top: MARGIN.top, bottom: 20, left: MARGIN.left, right: MARGIN.right },
-    bufferPages: true,
-    font: null as unknown as string,
-    info: { Title: `${TITLES[data.kind]} ${data.number}`, Author: data.lab.name, Subject: `${TITLES[data.kind]} for ${data.customer.name}`, Creator: 'Bandlight' },
-    lang: 'en-GB',
+  const { doc, done } = openLabPdf(fonts ?? await certificateFonts(), {
+    margins: MARGIN,
+    info: { Title: `${TITLES[data.kind]} ${data.number}`, Author: data.lab.name, Subject: `${TITLES[data.kind]} for ${data.customer.name}` },
   })
-  const chunks: Buffer[] = []
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (c: Buffer) => chunks.push(c))
-    doc.on('end', () => resolve(Buffer.concat(chunks)))
-    doc.on('error', reject)
-  })
-  doc.registerFont('Plex', Buffer.from(f.regular))
-  doc.registerFont('PlexSemi', Buffer.from(f.semibold))
   const w = new Writer(doc)
   titleBlock(w, data)
   partiesBlock(w, data)

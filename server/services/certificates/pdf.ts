@@ -14,7 +14,7 @@ import { fileURLToPath } from 'node:url'
 import zlib from 'node:zlib'
 import PDFDocument from 'pdfkit'
 import QRCode from 'qrcode'
-import { celsiusFixed, formatFixed, typographicMinus } from '#shared/format'
+import { celsiusFixed, formatFixed, longDate, typographicMinus } from '#shared/format'
 
 type Verdict = 'pass' | 'conditional-pass' | 'conditional-fail' | 'fail'
 
@@ -296,12 +296,6 @@ const celsius = (k: number, d: number) => celsiusFixed(k, d)
 const signed = (s: string) => (Number(s) === 0 ? s.replace(/^-/, '') : s.startsWith('-') ? `−${s.slice(1)}` : `+${s}`)
 const tick = (v: number, d: number) => typographicMinus(formatFixed(v, d))
 const decimalsOf = (s: string) => (s.includes('.') ? s.split('.')[1]!.length : 0)
-
-function longDate(iso: string): string {
-  const [y, m, d] = iso.slice(0, 10).split('-').map(Number)
-  const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
-  return `${d} ${months[m! - 1]} ${y}`
-}
 
 type Doc = PDFKit.PDFDocument
 
@@ -1017,27 +1011,21 @@ function drawQr(doc: Doc, text: string, x: number, y: number, size: number): voi
 }
 
 /**
- * Build the certificate PDF from plain data.
- * @param data - what the certificate states (see CertificateData)
- * @param fonts - the embedded fonts; by default read once from the server assets
- * @returns the PDF bytes
- * @example const pdf = await certificatePdf(data) // Buffer starting with "%PDF-"
+ * An A4 document of the laboratory's (certificates, quotes and invoices, the management review): the
+ * embedded IBM Plex fonts registered as `Plex` and `PlexSemi` (parsed once and reused, see
+ * registerFonts), pages buffered, and the bytes when the document ends.
+ * @param fonts - the embedded fonts ({@link certificateFonts})
+ * @param o - the page margins (the bottom one is the running footer's, below the content) and the PDF's info
+ * @returns the document and a promise of its bytes once `doc.end()` is called
  */
-export async function certificatePdf(data: CertificateData, fonts?: CertificateFonts): Promise<Buffer> {
-  if (!data.points.length) throw new Error('a certificate needs at least one calibration point')
-  const f = fonts ?? await certificateFonts()
+export function openLabPdf(fonts: CertificateFonts, o: { margins: { top: number, left: number, right: number }, info: { Title: string, Author: string, Subject?: string } }): { doc: Doc, done: Promise<Buffer> } {
   const doc = new PDFDocument({
     size: 'A4',
-    margins: { top: MARGIN.top, bottom: 20, left: MARGIN.left, right: MARGIN.right },
+    margins: { top: o.margins.top, bottom: 20, left: o.margins.left, right: o.margins.right },
     bufferPages: true,
     autoFirstPage: true,
     font: null as unknown as string,
-    info: {
-      Title: `Calibration certificate ${data.number}`,
-      Author: data.lab.name,
-      Subject: `${data.instrument.maker} ${data.instrument.model}, serial ${data.instrument.serial}`,
-      Creator: 'Bandlight',
-    },
+    info: { ...o.info, Creator: 'Bandlight' },
     lang: 'en-GB',
   })
   const chunks: Buffer[] = []
@@ -1046,7 +1034,23 @@ export async function certificatePdf(data: CertificateData, fonts?: CertificateF
     doc.on('end', () => resolve(Buffer.concat(chunks)))
     doc.on('error', reject)
   })
-  registerFonts(doc, f)
+  registerFonts(doc, fonts)
+  return { doc, done }
+}
+
+/**
+ * Build the certificate PDF from plain data.
+ * @param data - what the certificate states (see CertificateData)
+ * @param fonts - the embedded fonts; by default read once from the server assets
+ * @returns the PDF bytes
+ * @example const pdf = await certificatePdf(data) // Buffer starting with "%PDF-"
+ */
+export async function certificatePdf(data: CertificateData, fonts?: CertificateFonts): Promise<Buffer> {
+  if (!data.points.length) throw new Error('a certificate needs at least one calibration point')
+  const { doc, done } = openLabPdf(fonts ?? await certificateFonts(), {
+    margins: MARGIN,
+    info: { Title: `Calibration certificate ${data.number}`, Author: data.lab.name, Subject: `${data.instrument.maker} ${data.instrument.model}, serial ${data.instrument.serial}` },
+  })
   const w = new Writer(doc)
   titleBlock(w, data)
   amendmentNotice(w, data)

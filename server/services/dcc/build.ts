@@ -29,7 +29,7 @@
  * printed Celsius value (`kelvinFixed`), the error and U as the engine rounded them (GUM 7.2.6).
  */
 import { create } from 'xmlbuilder2'
-import { formatFixed, kelvinFixed } from '#shared/format'
+import { formatFixed, kelvinFixed, longDate } from '#shared/format'
 import type { CertificateData, CertificatePoint } from '#server/services/certificates/pdf'
 import { overallConformity, probabilityText } from '#server/services/certificates/pdf'
 import { DCC_CONFORMITY, DCC_NS, DCC_SCHEMA_LOCATION, DCC_SCHEMA_VERSION, DCC_WRITER_RELEASE, REF, SI_NS, UNIT, XMLNS_NS, XSI_NS, countryCode } from './format'
@@ -122,12 +122,6 @@ function location(parent: Node, addressLines: readonly string[]): void {
   const lines = addressLines.filter(Boolean)
   for (const line of lines) named(loc, 'further', line)
   if (!code && !lines.length) named(loc, 'further', 'Address not stated')
-}
-
-function longDate(iso: string): string {
-  const [y, m, d] = iso.slice(0, 10).split('-').map(Number)
-  const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
-  return `${d} ${months[m! - 1]} ${y}`
 }
 
 /** One statement: optional norm and refType, the declaration's paragraphs, an overall conformity. */

@@ -4,9 +4,8 @@
  * text ("Nonconformities raised: 2"), so the document reads the same when its text is extracted.
  * `managementReviewPdf(data, lab)` takes plain data and returns the bytes.
  */
-import PDFDocument from 'pdfkit'
 import type { ManagementReviewDTO } from '#shared/types'
-import { certificateFonts, type CertificateFonts } from '#server/services/certificates/pdf'
+import { certificateFonts, openLabPdf, type CertificateFonts } from '#server/services/certificates/pdf'
 
 const INK = '#231c2c'
 const MUTED = '#6c5886'
@@ -95,24 +94,8 @@ function frame(doc: Doc, lab: string, period: string): void {
  * @returns the PDF bytes
  */
 export async function managementReviewPdf(data: ManagementReviewDTO, lab: string, generatedOn: string, fonts?: CertificateFonts): Promise<Buffer> {
-  const f = fonts ?? await certificateFonts()
   const period = `${data.from} to ${data.to}`
-  const doc = new PDFDocument({
-    size: 'A4',
-    margins: { top: MARGIN.top, bottom: 20, left: MARGIN.left, right: MARGIN.right },
-    bufferPages: true,
-    font: null as unknown as string,
-    info: { Title: `Management review summary ${period}`, Author: lab, Creator: 'Bandlight' },
-    lang: 'en-GB',
-  })
-  const chunks: Buffer[] = []
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (c: Buffer) => chunks.push(c))
-    doc.on('end', () => resolve(Buffer.concat(chunks)))
-    doc.on('error', reject)
-  })
-  doc.registerFont('Plex', Buffer.from(f.regular))
-  doc.registerFont('PlexSemi', Buffer.from(f.semibold))
+  const { doc, done } = openLabPdf(fonts ?? await certificateFonts(), { margins: MARGIN, info: { Title: `Management review summary ${period}`, Author: lab } })
   const p = new Page(doc)
   p.line('Management review summary', 20, INK, 'PlexSemi')
   p.line(`${lab} · period ${period} · made on ${generatedOn}`, 9.5, MUTED)
