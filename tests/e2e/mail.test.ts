@@ -16,6 +16,8 @@ describe('mail page', () => {
     const { page } = browser
     await page.goto(`${BASE_URL}/admin/mail`)
     await page.getByTestId('nav').getByRole('link', { name: 'Mail' }).waitFor()
+    // A click before the page has hydrated does nothing (the button's handler is not attached yet): let its scripts load first.
+    await page.waitForLoadState('networkidle')
     await page.getByTestId('preview-reminders').click()
     await page.getByTestId('reminder-preview').waitFor()
     await page.getByTestId('run-reminders').click()

@@ -239,6 +239,37 @@ describe('the reminder scan', () => {
   })
 })
 
+describe('a long reminder', () => {
+  it('lists the first 100 instruments in its body and attaches all of them as CSV', async () => {
+    // Web mail clients clip long messages (Gmail past 102 KB of HTML, from memory), hiding the unsubscribe link at the end.
+    const org = await Organization.create({ name: 'Brackenhurst Kilns', contactEmails: [] })
+    await Contact.create({ organizationId: org.id, name: 'Ivo Brand', email: 'ivo@brackenhurst.example', phone: null, receivesReminders: true, active: true })
+    const made: string[] = []
+    for (let i = 0; i < 130; i++) made.push((await instrument(org.id, addDays(TODAY, i % 2 ? -8 : 0))).serial)
+    const r = await reminders.runReminderScan({ today: TODAY })
+    expect(r.logged).toBe(130)
+    const row = (await OutboxMessage.findAll({ where: { kind: 'reminder' } })).find(m => m.recipients[0] === 'ivo@brackenhurst.example')!
+    expect(row.subject).toBe('Recalibration overdue: 130 instruments — Brackenhurst Kilns')
+    const file = `recalibration-due-${TODAY}.csv`
+    expect(row.text).toContain(`The first 100 of them are listed here; all 130 are in the attached file ${file}.`)
+    expect(row.text.split('\n').filter(l => l.startsWith('  - IT-')).length).toBe(100)
+    expect(Buffer.byteLength(row.html!)).toBeLessThan(102 * 1024)
+    expect(row.attachments).toEqual([{ filename: file, contentType: 'text/csv', sha256: expect.stringMatching(/^[0-9a-f]{64}$/) }])
+    const { fileStore } = await import('../../server/utils/fileStore')
+    const csv = (await fileStore().get(row.attachments![0]!.sha256))!.toString('utf8')
+    const lines = csv.replace(/^\uFEFF/, '').trim().split('\r\n')
+    expect(lines[0]).toBe('Serial,Instrument,Due date,Due')
+    expect(lines.length).toBe(131)
+    expect(lines.map(l => l.split(',')[0]).slice(1).sort()).toEqual([...made].sort())
+    expect(lines).toContain(`${made[1]},Calderon Optics CX-40,${addDays(TODAY, -8)},overdue by 8 days`)
+
+    await outbox.sendQueued()
+    const mail = received().find(m => m.to[0] === 'ivo@brackenhurst.example')!
+    expect(mail.attachments).toEqual([expect.objectContaining({ filename: file, contentType: 'text/csv' })])
+    await Instrument.update({ archived: true }, { where: { organizationId: org.id } })
+  })
+})
+
 describe('the outbox', () => {
   it('keeps messages queued while SMTP is down and delivers each exactly once when it returns', async () => {
     await sink.close()

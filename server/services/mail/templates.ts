@@ -7,6 +7,7 @@
 import type { Transaction } from 'sequelize'
 import { LabSettings } from '#server/models/LabSettings'
 import { config } from '#server/utils/config'
+import { csvFromRows } from '#server/utils/csv'
 
 export interface LabIdentity {
   name: string
@@ -106,10 +107,43 @@ function addressText(lab: LabIdentity): string {
   return [lab.name, ...lab.address].join('\n')
 }
 
-/** The recalibration reminder to one customer contact, listing each instrument at a new milestone. */
-export function reminderMail(input: { lab: LabIdentity, contactName: string, organizationName: string, lines: ReminderLine[], unsubscribeUrl: string }): RenderedMail {
+/**
+ * The most instruments a reminder lists in its body. Web mail clients clip a long message and hide
+ * its end, the unsubscribe link with it (Gmail past 102 KB of HTML, from memory); at about 380 bytes
+ * a line, 100 lines keep a reminder near 45 KB. A longer list goes whole in an attached CSV file
+ * ({@link reminderListCsv}) and the body says how many it shows.
+ */
+export const REMINDER_BODY_LINES = 100
+
+// The first lines of a long list, one array per list (so the rendered table is cached for every contact).
+const headOfList = new WeakMap<ReminderLine[], ReminderLine[]>()
+
+function bodyLines(lines: ReminderLine[]): ReminderLine[] {
+  if (lines.length <= REMINDER_BODY_LINES) return lines
+  let head = headOfList.get(lines)
+  if (!head) {
+    head = lines.slice(0, REMINDER_BODY_LINES)
+    headOfList.set(lines, head)
+  }
+  return head
+}
+
+/** The whole list of a reminder as CSV (a header row, then one row per instrument, in the body's order). */
+export function reminderListCsv(lines: readonly ReminderLine[]): string {
+  return csvFromRows(['Serial', 'Instrument', 'Due date', 'Due'], lines.map(l => ({ 'Serial': l.label, 'Instrument': l.detail, 'Due date': l.dueDate, 'Due': l.dueInWords })))
+}
+
+/**
+ * The recalibration reminder to one customer contact, listing each instrument at a new milestone
+ * (most urgent first). A list longer than {@link REMINDER_BODY_LINES} shows its first lines and names
+ * `listFile`, the attached CSV file that holds all of them.
+ */
+export function reminderMail(input: { lab: LabIdentity, contactName: string, organizationName: string, lines: ReminderLine[], unsubscribeUrl: string, listFile?: string }): RenderedMail {
   const { lab, lines } = input
   const n = lines.length
+  const shown = bodyLines(lines)
+  if (shown.length < n && !input.listFile) throw new Error('A reminder listing more instruments than its body shows needs the attached list')
+  const more = shown.length < n ? `The first ${shown.length} of them are listed here; all ${n} are in the attached file ${input.listFile}.` : null
   const anyOverdue = lines.some(l => l.overdue)
   const noun = `${n} instrument${n === 1 ? '' : 's'}`
   const subject = `${anyOverdue ? 'Recalibration overdue' : 'Recalibration due'}: ${noun} — ${input.organizationName}`
@@ -121,8 +155,8 @@ export function reminderMail(input: { lab: LabIdentity, contactName: string, org
 
 ${intro}
 
-${linesText(lines)}
-
+${linesText(shown)}
+${more ? `\n${more}\n` : ''}
 ${ask}
 
 Kind regards,
@@ -133,8 +167,8 @@ ${input.unsubscribeUrl}
 `
   const body = `<p style="margin:0 0 12px">Dear ${escapeHtml(input.contactName)},</p>
 <p style="margin:0 0 12px">${escapeHtml(intro)}</p>
-${linesTableHtml(lines, ['Serial', 'Instrument', 'Due'])}
-<p style="margin:12px 0 0">${escapeHtml(ask)}</p>`
+${linesTableHtml(shown, ['Serial', 'Instrument', 'Due'])}
+${more ? `<p style="margin:12px 0 0">${escapeHtml(more)}</p>\n` : ''}<p style="margin:12px 0 0">${escapeHtml(ask)}</p>`
   const footer = `<br><br>You receive these reminders as a contact of ${escapeHtml(input.organizationName)}. <a href="${escapeHtml(input.unsubscribeUrl)}" style="color:#1f6f78">Stop recalibration reminders</a>`
   return { subject, text, html: htmlPage(lab, body, footer) }
 }

@@ -5,7 +5,8 @@
  *   a milestone of its due date (shared/mail/milestones.ts: lead times, due date, weekly while
  *   overdue); each milestone not yet in the reminder log is reminded about once. One message per
  *   active contact who receives reminders, listing all of that organization's instruments at a new
- *   milestone, with the contact's own unsubscribe link;
+ *   milestone (a long list: its first lines in the body and all of it in an attached CSV file), with
+ *   the contact's own unsubscribe link;
  * - the lab: each blackbody source and reference instrument in service or quarantined whose
  *   latest calibration is due within 30 days (`due-soon`) or past due (`overdue`), one message per
  *   active quality manager;
@@ -46,7 +47,8 @@ import { onPostgres, sequelize, writeTransaction } from '#server/utils/db'
 import { withLease } from '#server/utils/lease'
 import { conflict } from '#server/utils/errors'
 import { unsubscribeUrl, verifyUnsubscribeToken } from '#server/services/mail/tokens'
-import { equipmentAlertMail, labIdentity, qualityAlertMail, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
+import { REMINDER_BODY_LINES, equipmentAlertMail, labIdentity, qualityAlertMail, reminderListCsv, reminderMail, type LabIdentity, type ReminderLine } from '#server/services/mail/templates'
+import { fileStore } from '#server/utils/fileStore'
 import { CorrectiveAction } from '#server/models/CorrectiveAction'
 import { CorrectiveActionItem } from '#server/models/CorrectiveActionItem'
 import { ReminderLog } from '#server/models/ReminderLog'
@@ -57,7 +59,6 @@ import { planInvoiceGroups } from '#server/services/billing/overdue'
 
 /** Reference equipment is reported this many days before its due date. */
 export const EQUIPMENT_WINDOW_DAYS = 30
-const DETAIL_CHUNK = 900
 
 function rulesOf(row: MailSettings): MilestoneRules {
   return { leadTimes: row.leadTimes, overdueWeekly: !!row.overdueWeekly }
@@ -78,6 +79,8 @@ export interface PlannedMessage {
   text: string
   html: string
   dedupeKey: string
+  /** A file sent with it (the whole list of a long reminder), stored when the message is queued. */
+  attachment?: { filename: string, contentType: string, content: Buffer }
 }
 
 /** What one transaction writes: the log rows of a group (an organization, or the lab's equipment) and its messages. */
@@ -92,15 +95,18 @@ export interface ReminderPlan {
   groups: PlannedGroup[]
 }
 
+/** An instrument that could be at a milestone: id, organization, due date, serial, maker, model, and the milestones of that due date already logged (space-separated, or null). */
+type CandidateTuple = [id: number, organizationId: number, nextDueDate: string, serial: string, maker: string, model: string, sent: string | null]
+
 interface CandidateRow {
   id: number
   organizationId: number
   nextDueDate: string
-  /** Milestones of this due date already logged, space-separated, or null. */
+  serial: string
+  maker: string
+  model: string
   sent: string | null
 }
-
-interface DetailRow { id: number, serial: string, maker: string, model: string }
 
 function itemsHash(items: PlannedItem[]): string {
   const keys = items.map(i => `${i.itemType}:${i.itemId}:${i.dueDate}:${i.milestone}`).sort()
@@ -114,19 +120,31 @@ function byDueThenLabel(a: PlannedItem, b: PlannedItem): number {
 async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: LabIdentity): Promise<PlannedGroup[]> {
   const horizon = reminderHorizon(today, rules.leadTimes)
   // One pass over the register: every instrument that could be at a milestone, of an organization
-  // someone at which receives reminders, with the milestones of its due date already logged
-  // (a correlated look-up on the log's unique index).
+  // someone at which receives reminders, with what a message lists of it and the milestones of its
+  // due date already logged (a correlated look-up on the log's unique index). The rows come as one
+  // JSON array per organization: a large register at a milestone is tens of thousands of rows, and
+  // the driver building an object for each costs more than the database's whole scan.
   // Identifiers in double quotes and booleans as TRUE/FALSE: the same SQL on SQLite and PostgreSQL.
-  const concat = onPostgres() ? 'string_agg' : 'group_concat'
-  const candidates = await sequelize.query<CandidateRow>(
-    `SELECT i.id, i."organizationId", i."nextDueDate",
+  const [concat, arrayOf, tuple] = onPostgres() ? ['string_agg', 'json_agg', 'json_build_array'] : ['group_concat', 'json_group_array', 'json_array']
+  const perOrganization = await sequelize.query<{ organizationId: number, items: string | CandidateTuple[] }>(
+    `SELECT i."organizationId", ${arrayOf}(${tuple}(i.id, i."organizationId", i."nextDueDate", i.serial, i.maker, i.model,
             (SELECT ${concat}(r.milestone, ' ') FROM reminder_logs r
-              WHERE r."itemType" = 'instrument' AND r."itemId" = i.id AND r."dueDate" = i."nextDueDate") AS sent
-       FROM instruments i JOIN organizations o ON o.id = i."organizationId" AND o.active = TRUE
+              WHERE r."itemType" = 'instrument' AND r."itemId" = i.id AND r."dueDate" = i."nextDueDate"))) AS items
+       FROM instruments i
       WHERE i.archived = FALSE AND i.status <> 'retired' AND i."nextDueDate" IS NOT NULL AND i."nextDueDate" <= :horizon
-        AND EXISTS (SELECT 1 FROM contacts c WHERE c."organizationId" = i."organizationId" AND c.active = TRUE AND c."receivesReminders" = TRUE)`,
+        AND i."organizationId" IN (SELECT o.id FROM organizations o WHERE o.active = TRUE
+              AND EXISTS (SELECT 1 FROM contacts c WHERE c."organizationId" = o.id AND c.active = TRUE AND c."receivesReminders" = TRUE))
+      GROUP BY i."organizationId"`,
     { type: QueryTypes.SELECT, replacements: { horizon } },
   )
+  const candidates: CandidateRow[] = []
+  for (const group of perOrganization) {
+    // SQLite returns the array as text, PostgreSQL's driver parses json itself
+    const tuples = typeof group.items === 'string' ? JSON.parse(group.items) as CandidateTuple[] : group.items
+    for (const [id, organizationId, nextDueDate, serial, maker, model, sent] of tuples) {
+      candidates.push({ id, organizationId, nextDueDate: String(nextDueDate).slice(0, 10), serial, maker, model, sent })
+    }
+  }
   // due dates repeat across a large register: each one's milestone is worked out once
   const milestoneOfDate = milestonesOn(today, rules)
   const milestones = new Map<string, ReturnType<typeof milestoneOfDate>>()
@@ -146,27 +164,16 @@ async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: La
   }
   if (!due.length) return []
 
-  // Serial, maker and model only of the instruments that will be listed.
-  const details = new Map<number, DetailRow>()
-  for (let i = 0; i < due.length; i += DETAIL_CHUNK) {
-    const rows = await sequelize.query<DetailRow>('SELECT id, serial, maker, model FROM instruments WHERE id IN (:ids)', {
-      type: QueryTypes.SELECT,
-      replacements: { ids: due.slice(i, i + DETAIL_CHUNK).map(d => d.row.id) },
-    })
-    for (const r of rows) details.set(r.id, r)
-  }
   const pending = new Map<number, PlannedItem[]>()
   for (const { row, key, daysToDue } of due) {
-    const d = details.get(row.id)
-    if (!d) continue
     const list = pending.get(row.organizationId) ?? []
     list.push({
       itemType: 'instrument',
       itemId: row.id,
       dueDate: row.nextDueDate,
       milestone: key,
-      label: d.serial,
-      detail: `${d.maker} ${d.model}`,
+      label: row.serial,
+      detail: `${row.maker} ${row.model}`,
       dueInWords: dueInWords(daysToDue),
       overdue: daysToDue < 0,
     })
@@ -194,9 +201,13 @@ async function planCustomerGroups(today: IsoDate, rules: MilestoneRules, lab: La
     if (!recipients?.length) continue
     items.sort(byDueThenLabel)
     const hash = itemsHash(items)
+    // A list too long for a message body goes whole in an attached CSV file (with a byte-order mark for spreadsheets).
+    const attachment = items.length > REMINDER_BODY_LINES
+      ? { filename: `recalibration-due-${today}.csv`, contentType: 'text/csv', content: Buffer.from(`\uFEFF${reminderListCsv(items)}`, 'utf8') }
+      : undefined
     const messages = recipients.map((contact) => {
-      const mail = reminderMail({ lab, contactName: contact.name, organizationName: orgName.get(orgId) ?? 'your organization', lines: items, unsubscribeUrl: unsubscribeUrl(contact.id) })
-      return { kind: 'reminder' as const, to: [contact.email], ...mail, dedupeKey: `reminder:${contact.id}:${today}:${hash}` }
+      const mail = reminderMail({ lab, contactName: contact.name, organizationName: orgName.get(orgId) ?? 'your organization', lines: items, unsubscribeUrl: unsubscribeUrl(contact.id), listFile: attachment?.filename })
+      return { kind: 'reminder' as const, to: [contact.email], ...mail, dedupeKey: `reminder:${contact.id}:${today}:${hash}`, attachment }
     })
     groups.push({ key: `organization:${orgId}`, items, messages })
   }
@@ -352,8 +363,11 @@ async function insertLogRows(t: Transaction, items: PlannedItem[], today: IsoDat
 /** One group's messages, then its log rows, in the caller's transaction. */
 async function writeGroupIn(t: Transaction, group: PlannedGroup, today: IsoDate): Promise<void> {
   let first: number | null = null
-  for (const m of group.messages) {
-    const row = await queueMail(t, m)
+  for (const { attachment, ...m } of group.messages) {
+    const attachments = attachment
+      ? [{ filename: attachment.filename, contentType: attachment.contentType, sha256: await fileStore().put(attachment.content, t) }]
+      : undefined
+    const row = await queueMail(t, { ...m, attachments })
     first ??= row.id
   }
   await insertLogRows(t, group.items, today, first)
