@@ -69,7 +69,7 @@ export async function runRegistersBench(opts: { quick?: boolean, rows?: number }
   const { migrate } = await import('#server/utils/migrate')
   const { Organization } = await import('#server/models/Organization')
   const { Instrument } = await import('#server/models/Instrument')
-  const { queryInstruments } = await import('#server/services/instruments/query')
+  const { queryInstrumentPage } = await import('#server/services/instruments/query')
   try {
     await migrate()
     const orgs = await Organization.bulkCreate(Array.from({ length: 50 }, (_, i) => ({ name: `Bench Customer ${i + 1}`, contactEmails: [] })))
@@ -84,7 +84,7 @@ export async function runRegistersBench(opts: { quick?: boolean, rows?: number }
     await sequelize.query('ANALYZE')
 
     const base = { page: 1, pageSize: 50, sort: 'serial' as const, dir: 'asc' as const }
-    const cases: { name: string, o: Parameters<typeof queryInstruments>[0] }[] = [
+    const cases: { name: string, o: Parameters<typeof queryInstrumentPage>[0] }[] = [
       { name: 'first page, sort serial', o: base },
       { name: 'deep page (offset 90 % of rows)', o: { ...base, page: Math.floor((count * 0.9) / 50) } },
       { name: 'sort serial desc', o: { ...base, dir: 'desc' } },
@@ -106,7 +106,7 @@ export async function runRegistersBench(opts: { quick?: boolean, rows?: number }
       let total = 0
       for (let run = 0; run < 7; run++) {
         const s = performance.now()
-        total = (await queryInstruments(c.o)).total
+        total = (await queryInstrumentPage(c.o)).total
         times.push(performance.now() - s)
       }
       times.sort((a, b) => a - b)

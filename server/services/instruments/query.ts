@@ -3,10 +3,11 @@
  * (scripts/bench/registers.ts), so both run the same SQL. No Nitro auto-imports here.
  *
  * Speed on 100 000 rows:
- * - the page: a LIMIT/OFFSET query for ids ordered by the sort column and then id (a stable order),
- *   served by migration 0002's indexes (one per sortable text column, NOCASE, and (archived, column);
- *   0011's (archived, column, id) on PostgreSQL); then those rows, with their organization's and
- *   responsivity table's names joined in, as plain rows (no model instances): {@link queryInstrumentPage};
+ * - the page: one statement, a LIMIT/OFFSET subquery for ids ordered by the sort column and then id
+ *   (a stable order), served by migration 0002's indexes (one per sortable text column, NOCASE, and
+ *   (archived, column); 0011's (archived, column, id) on PostgreSQL), joined to those rows with their
+ *   organization's and responsivity tables' names, as plain rows (no model instances):
+ *   {@link queryInstrumentPage};
  * - the total: counted once per filter and kept against the change counter `instruments`
  *   (server/utils/changeCounters.ts): a later page, or the same filter from any client, reuses it
  *   until an instrument is added, archived or changed in a column a filter reads, on any instance;
@@ -76,18 +77,23 @@ export function instrumentFilterKey(o: Omit<InstrumentListOptions, 'page' | 'pag
 }
 
 /**
- * ORDER BY the sort column, then id. On PostgreSQL, a text search sorted by one of the searched
- * columns orders by `lower(column)` instead (the same order under the database's case-insensitive
- * collation): no index gives that order, so the planner finds the matches through the search's
- * indexes and sorts those few, rather than walking the sort column's index past every
- * row that sorts before the first match.
+ * ORDER BY the sort column, then id (a stable order), as SQL for the instruments table under
+ * `alias`. On PostgreSQL, a text search sorted by one of the searched columns orders by
+ * `lower(column)` instead (the same order under the database's case-insensitive collation): no
+ * index gives that order, so the planner finds the matches through the search's indexes and sorts
+ * those few, rather than walking the sort column's index past every row that sorts before the
+ * first match. `sort` is one of the schema's column names, never free text.
  */
-export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir'], searching = false): Order {
+export function instrumentOrderSql(alias: string, sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir'], searching = false): string {
   const d = dir === 'desc' ? 'DESC' : 'ASC'
-  if (searching && onPostgres() && (INSTRUMENT_SEARCH_COLUMNS as readonly string[]).includes(sort)) {
-    return [[literal(`lower(${quotedColumn('Instrument', sort)})`), d], ['id', d]]
-  }
-  return [[sort, d], ['id', d]]
+  const column = quotedColumn(alias, sort)
+  const key = searching && onPostgres() && (INSTRUMENT_SEARCH_COLUMNS as readonly string[]).includes(sort) ? `lower(${column})` : column
+  return `${key} ${d}, ${quotedColumn(alias, 'id')} ${d}`
+}
+
+/** {@link instrumentOrderSql} as a Sequelize order for `Instrument.findAll`. */
+export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: InstrumentListOptions['dir'], searching = false): Order {
+  return [literal(instrumentOrderSql(Instrument.name, sort, dir, searching))]
 }
 
 /** Totals per filter, kept while no instrument changes (see the module's note). */
@@ -96,26 +102,6 @@ const totals = new CountCache('instruments')
 /** The number of instruments matching the filter: cached per filter against the change counter. */
 export function countInstruments(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): Promise<number> {
   return totals.get(instrumentFilterKey(o), () => Instrument.count(instrumentFilter(o).options()))
-}
-
-/** The ids of one page, in order. */
-async function pageIds(o: InstrumentListOptions): Promise<number[]> {
-  const filter = instrumentFilter(o).options()
-  const page = await Instrument.findAll({ attributes: ['id'], ...filter, order: instrumentOrder(o.sort, o.dir, !!o.q), limit: o.pageSize, offset: (o.page - 1) * o.pageSize, raw: true })
-  return page.map(r => r.id)
-}
-
-/**
- * One page of instruments (model instances) and the total matching. The page is found as ids first
- * (an index-only scan when an index covers the filter and the sort, which keeps deep pages cheap),
- * then those rows are read by primary key. The list route uses the lighter {@link queryInstrumentPage}.
- */
-export async function queryInstruments(o: InstrumentListOptions): Promise<{ rows: Instrument[], total: number }> {
-  const [total, ids] = await Promise.all([countInstruments(o), pageIds(o)])
-  if (!ids.length) return { rows: [], total }
-  const found = await Instrument.findAll({ where: { id: ids } })
-  const byId = new Map(found.map(r => [r.id, r]))
-  return { rows: ids.map(id => byId.get(id)).filter((r): r is Instrument => !!r), total }
 }
 
 /** An instrument as the list reads it: plain values, with the names the list shows (the DTO without the past-due flag). */
@@ -149,28 +135,36 @@ function listRow(r: RawListRow): InstrumentListRow {
   }
 }
 
-/** Rows by id (with organization and both bands' responsivity names) in one query, in the order of `ids`. */
-export async function instrumentListRows(ids: readonly number[]): Promise<InstrumentListRow[]> {
-  if (!ids.length) return []
+/**
+ * One page of instruments as plain rows and the total matching. The page is one statement: the
+ * page's ids in a subquery (LIMIT/OFFSET over the filter and the order: an index-only scan when an
+ * index covers the filter and the sort, which keeps deep pages cheap), then those rows by primary key
+ * with their organization's and both bands' responsivity tables' names joined in. The total comes
+ * from the per-filter cache (a COUNT only when the filter is new or an instrument changed since).
+ * The SQL is written here rather than through `findAll`: a model query on SQLite costs a second
+ * round trip (Sequelize reads the table's column types first) and builds more than a list needs.
+ */
+export async function queryInstrumentPage(o: InstrumentListOptions): Promise<{ rows: InstrumentListRow[], total: number }> {
+  const [total, rows] = await Promise.all([countInstruments(o), pageRows(o)])
+  return { rows, total }
+}
+
+async function pageRows(o: InstrumentListOptions): Promise<InstrumentListRow[]> {
+  const { where, bind } = instrumentFilter(o).options()
+  const qi = sequelize.getQueryInterface()
+  const alias = qi.quoteIdentifier(Instrument.name)
+  const whereSql = (qi.queryGenerator as { whereQuery: (w: unknown, opts: object) => string }).whereQuery(where, { model: Instrument })
+  const searching = !!o.q
   const rows = await sequelize.query<RawListRow>(
     `SELECT ${LIST_COLUMNS.map(c => `i."${c}"`).join(', ')}, o.name AS "organizationName", s.name AS "spectralResponseName", s2.name AS "band2SpectralResponseName"
-       FROM instruments i
+       FROM (SELECT ${alias}."id" FROM instruments AS ${alias} ${whereSql}
+              ORDER BY ${instrumentOrderSql(Instrument.name, o.sort, o.dir, searching)} LIMIT $pageLimit OFFSET $pageOffset) AS p
+       JOIN instruments i ON i.id = p.id
        LEFT JOIN organizations o ON o.id = i."organizationId"
        LEFT JOIN spectral_responses s ON s.id = i."spectralResponseId"
        LEFT JOIN spectral_responses s2 ON s2.id = i."band2SpectralResponseId"
-      WHERE i.id IN (:ids)`,
-    { type: QueryTypes.SELECT, replacements: { ids } },
+      ORDER BY ${instrumentOrderSql('i', o.sort, o.dir, searching)}`,
+    { type: QueryTypes.SELECT, bind: { ...bind, pageLimit: o.pageSize, pageOffset: (o.page - 1) * o.pageSize } },
   )
-  const byId = new Map(rows.map(r => [Number(r.id), r]))
-  return ids.map(id => byId.get(id)).filter((r): r is RawListRow => !!r).map(listRow)
-}
-
-/**
- * One page of instruments as plain rows and the total matching: the page's ids, then its rows with
- * names joined in (two queries), and the total from the per-filter cache (a COUNT only when the
- * filter is new or an instrument changed since).
- */
-export async function queryInstrumentPage(o: InstrumentListOptions): Promise<{ rows: InstrumentListRow[], total: number }> {
-  const [total, ids] = await Promise.all([countInstruments(o), pageIds(o)])
-  return { rows: await instrumentListRows(ids), total }
+  return rows.map(listRow)
 }
