@@ -39,7 +39,7 @@ export async function changeCounter(name: ChangeCounter, transaction?: Transacti
  * Figures (list totals) cached per key against a change counter, in this process, least recently
  * used dropped first. `get(key, compute)` reads the counter, answers the cached figure when it was
  * computed at the same counter value, and otherwise computes it (after the counter was read) and
- * keeps it.
+ * keeps it; `getAt` takes a counter value the caller read itself.
  */
 export class CountCache {
   private readonly entries = new Map<string, { version: number, value: number }>()
@@ -58,7 +58,15 @@ export class CountCache {
    * @param compute - computes the figure from the database
    */
   async get(key: string, compute: () => Promise<number>): Promise<number> {
-    const version = await changeCounter(this.counter)
+    return this.getAt(await changeCounter(this.counter), key, compute)
+  }
+
+  /**
+   * {@link get} with the counter already read by the caller (in the same statement as the rows the
+   * figure goes with, say). `version` must have been read before `compute` runs.
+   * @param version - the counter's value as read; below 0 nothing is cached
+   */
+  async getAt(version: number, key: string, compute: () => Promise<number>): Promise<number> {
     const hit = this.entries.get(key)
     if (hit && hit.version === version && version >= 0) {
       this.hitCount++

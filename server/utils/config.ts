@@ -22,6 +22,8 @@ export interface BandlightConfig {
   databaseLog: boolean
   /** Most connections one instance opens to PostgreSQL (DB_POOL_MAX). */
   databasePoolMax: number
+  /** SQLite only: the page cache of each connection, MiB (SQLITE_CACHE_MB). */
+  sqliteCacheMb: number
   /**
    * Where stored files (uploads, certificate PDFs) live (FILE_STORAGE): `directory` (under
    * {@link dataDir}) or `database` (table `file_contents`); null = `directory` on SQLite,
@@ -111,6 +113,7 @@ function read(): BandlightConfig {
     databaseUrl: raw('DATABASE_URL') ?? DEFAULT_DATABASE_URL,
     databaseLog: raw('DB_LOG') === '1',
     databasePoolMax: Math.floor(positive('DB_POOL_MAX', 10)),
+    sqliteCacheMb: Math.floor(positive('SQLITE_CACHE_MB', 64)),
     fileStorage: fileStorage(raw('FILE_STORAGE')),
     dataDir: raw('BANDLIGHT_DATA_DIR') ?? null,
     uploadMaxBytes: Math.floor(positive('UPLOAD_MAX_BYTES', DEFAULT_UPLOAD_MAX_BYTES)),

@@ -120,6 +120,25 @@ describe('instruments', () => {
     expect((await tech.get('/api/instruments?status=broken')).body.data.fields).toHaveProperty('status')
   })
 
+  it('a list row holds the same values as the instrument\'s own record, on either database', async () => {
+    // The list reads its page as one JSON array from the database; the detail reads the model. Both must agree to the byte.
+    const { own } = await orgIds()
+    const tech = await signedIn('technician')
+    const serial = unique('ROW-')
+    const made = (await tech.post('/api/instruments', instrument(own, serial, {
+      assetTag: unique('TAG-'), notes: 'Lens cap "B" & strap — kept with the item', defaultEmissivity: 0.97, resolutionK: 0.01,
+      accuracy: { kind: 'greaterOf', a: 1.5, b: 0.75 }, nextDueDate: '2001-02-03',
+    }))).body
+    const list = await tech.get(`/api/instruments?q=${encodeURIComponent(serial)}`)
+    expect(list.status).toBe(200)
+    expect(list.body.total).toBe(1)
+    const row = list.body.rows[0]
+    const detail = (await tech.get(`/api/instruments/${made.id}`)).body
+    for (const [key, value] of Object.entries(row)) expect([key, value]).toEqual([key, detail[key]])
+    expect(row).toMatchObject({ serial, archived: false, pastDue: true, defaultEmissivity: 0.97, accuracy: { kind: 'greaterOf', a: 1.5, b: 0.75 } })
+    expect(row.createdAt).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$/)
+  })
+
   it('the demo has about forty instruments across the three customers and the common bands', async () => {
     const tech = await signedIn('technician')
     const all = (await tech.get('/api/instruments?pageSize=500&archived=all&q=')).body.rows as { assetTag: string | null, bandLambda1Um: number | null, spectralResponseId: number | null, organizationName: string }[]

@@ -18,7 +18,6 @@
  */
 import { Op, QueryTypes, literal, type Order } from 'sequelize'
 import type { InstrumentQuery } from '#shared/schemas/registerQuery'
-import type { AccuracySpec } from '#shared/schemas/instrument'
 import type { InstrumentDTO } from '#shared/types'
 import { Instrument } from '#server/models/Instrument'
 import { CountCache } from '#server/utils/changeCounters'
@@ -99,9 +98,13 @@ export function instrumentOrder(sort: InstrumentListOptions['sort'], dir: Instru
 /** Totals per filter, kept while no instrument changes (see the module's note). */
 const totals = new CountCache('instruments')
 
-/** The number of instruments matching the filter: cached per filter against the change counter. */
-export function countInstruments(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>): Promise<number> {
-  return totals.get(instrumentFilterKey(o), () => Instrument.count(instrumentFilter(o).options()))
+/**
+ * The number of instruments matching the filter: cached per filter against the change counter.
+ * @param version - the counter `instruments` as the caller read it (else it is read here)
+ */
+export function countInstruments(o: Omit<InstrumentListOptions, 'page' | 'pageSize' | 'sort' | 'dir'>, version?: number): Promise<number> {
+  const compute = () => Instrument.count(instrumentFilter(o).options())
+  return version === undefined ? totals.get(instrumentFilterKey(o), compute) : totals.getAt(version, instrumentFilterKey(o), compute)
 }
 
 /** An instrument as the list reads it: plain values, with the names the list shows (the DTO without the past-due flag). */
@@ -122,49 +125,62 @@ export function isoTimestamp(v: unknown): string {
   return m ? new Date(`${m[1]}T${m[2]}Z`).toISOString() : new Date(s).toISOString()
 }
 
-type RawListRow = Record<(typeof LIST_COLUMNS)[number] | 'organizationName' | 'spectralResponseName' | 'band2SpectralResponseName', unknown>
+/** The values of a list row, in the order of {@link LIST_FIELDS}, as the page's SQL returns them. */
+type ListTuple = unknown[]
+
+/** What the page's SQL returns for each instrument, in order: its columns and the names the list shows. */
+const LIST_FIELDS = [...LIST_COLUMNS, 'organizationName', 'spectralResponseName', 'band2SpectralResponseName'] as const
 
 /** A row of the list's SQL as plain values, the same on both engines. */
-function listRow(r: RawListRow): InstrumentListRow {
-  return {
-    ...(r as unknown as InstrumentListRow),
-    accuracy: (typeof r.accuracy === 'string' ? JSON.parse(r.accuracy) : r.accuracy) as AccuracySpec,
-    archived: !!r.archived,
-    createdAt: isoTimestamp(r.createdAt),
-    updatedAt: isoTimestamp(r.updatedAt),
-  }
+function listRow(t: ListTuple): InstrumentListRow {
+  const r: Record<string, unknown> = {}
+  for (let k = 0; k < LIST_FIELDS.length; k++) r[LIST_FIELDS[k]!] = t[k]
+  r.accuracy = typeof r.accuracy === 'string' ? JSON.parse(r.accuracy) : r.accuracy
+  r.archived = !!r.archived
+  r.createdAt = isoTimestamp(r.createdAt)
+  r.updatedAt = isoTimestamp(r.updatedAt)
+  return r as unknown as InstrumentListRow
 }
 
 /**
  * One page of instruments as plain rows and the total matching. The page is one statement: the
  * page's ids in a subquery (LIMIT/OFFSET over the filter and the order: an index-only scan when an
  * index covers the filter and the sort, which keeps deep pages cheap), then those rows by primary key
- * with their organization's and both bands' responsivity tables' names joined in. The total comes
- * from the per-filter cache (a COUNT only when the filter is new or an instrument changed since).
+ * with their organization's and both bands' responsivity tables' names joined in, and the change
+ * counter `instruments` read in the same statement. The total comes from the per-filter cache
+ * against that reading (a COUNT, after it, only when the filter is new or an instrument changed since).
  * The SQL is written here rather than through `findAll`: a model query on SQLite costs a second
  * round trip (Sequelize reads the table's column types first) and builds more than a list needs.
  */
 export async function queryInstrumentPage(o: InstrumentListOptions): Promise<{ rows: InstrumentListRow[], total: number }> {
-  const [total, rows] = await Promise.all([countInstruments(o), pageRows(o)])
-  return { rows, total }
+  const { rows, version } = await pageRows(o)
+  return { rows, total: await countInstruments(o, version) }
 }
 
-async function pageRows(o: InstrumentListOptions): Promise<InstrumentListRow[]> {
+/** The page's rows, and the change counter `instruments` read in the same statement. */
+async function pageRows(o: InstrumentListOptions): Promise<{ rows: InstrumentListRow[], version: number | undefined }> {
   const { where, bind } = instrumentFilter(o).options()
   const qi = sequelize.getQueryInterface()
   const alias = qi.quoteIdentifier(Instrument.name)
   const whereSql = (qi.queryGenerator as { whereQuery: (w: unknown, opts: object) => string }).whereQuery(where, { model: Instrument })
   const searching = !!o.q
-  const rows = await sequelize.query<RawListRow>(
-    `SELECT ${LIST_COLUMNS.map(c => `i."${c}"`).join(', ')}, o.name AS "organizationName", s.name AS "spectralResponseName", s2.name AS "band2SpectralResponseName"
+  // The page comes back as one JSON array of value arrays (one string for the driver to pass on, not
+  // an object per row with a property per column), with the change counter beside it.
+  const [arrayOf, tuple] = onPostgres() ? ['json_agg', 'json_build_array'] : ['json_group_array', 'json_array']
+  const names = ['o.name', 's.name', 's2.name']
+  const [result] = await sequelize.query<{ listVersion: number | string | null, page: string | ListTuple[] | null }>(
+    `SELECT (SELECT value FROM change_counters WHERE name = 'instruments') AS "listVersion",
+            ${arrayOf}(${tuple}(${[...LIST_COLUMNS.map(c => `i."${c}"`), ...names].join(', ')}) ORDER BY ${instrumentOrderSql('i', o.sort, o.dir, searching)}) AS page
        FROM (SELECT ${alias}."id" FROM instruments AS ${alias} ${whereSql}
               ORDER BY ${instrumentOrderSql(Instrument.name, o.sort, o.dir, searching)} LIMIT $pageLimit OFFSET $pageOffset) AS p
        JOIN instruments i ON i.id = p.id
        LEFT JOIN organizations o ON o.id = i."organizationId"
        LEFT JOIN spectral_responses s ON s.id = i."spectralResponseId"
-       LEFT JOIN spectral_responses s2 ON s2.id = i."band2SpectralResponseId"
-      ORDER BY ${instrumentOrderSql('i', o.sort, o.dir, searching)}`,
+       LEFT JOIN spectral_responses s2 ON s2.id = i."band2SpectralResponseId"`,
     { type: QueryTypes.SELECT, bind: { ...bind, pageLimit: o.pageSize, pageOffset: (o.page - 1) * o.pageSize } },
   )
-  return rows.map(listRow)
+  // SQLite returns the array as text, PostgreSQL's driver parses json itself (and json_agg of no rows is null)
+  const tuples = typeof result?.page === 'string' ? JSON.parse(result.page) as ListTuple[] : (result?.page ?? [])
+  const version = result?.listVersion === null || result?.listVersion === undefined ? undefined : Number(result.listVersion)
+  return { rows: tuples.map(listRow), version }
 }
