@@ -13,6 +13,15 @@ export interface OutboxMessageDTO {
   nextAttemptAt: string | null
   sentAt: string | null
   createdAt: string
+  /** Files sent with it (name and type; the bytes stay in the file store). */
+  attachments: MailAttachmentDTO[]
+}
+
+/** A file sent with a message: its name, type and, for a received message, size in bytes. */
+export interface MailAttachmentDTO {
+  filename: string
+  contentType: string
+  size?: number
 }
 
 /** A message the local SMTP server (demo, development, tests) received. */
@@ -25,7 +34,7 @@ export interface ReceivedMessageDTO {
   html: string | null
   date: string
   /** Files that came with the message (name, type, size in bytes). */
-  attachments?: { filename: string, contentType: string, size: number }[]
+  attachments?: MailAttachmentDTO[]
 }
 
 export interface MailSettingsDTO {

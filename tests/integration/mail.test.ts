@@ -255,6 +255,7 @@ describe('a long reminder', () => {
     expect(row.text.split('\n').filter(l => l.startsWith('  - IT-')).length).toBe(100)
     expect(Buffer.byteLength(row.html!)).toBeLessThan(102 * 1024)
     expect(row.attachments).toEqual([{ filename: file, contentType: 'text/csv', sha256: expect.stringMatching(/^[0-9a-f]{64}$/) }])
+    expect(outbox.outboxDTO(row).attachments).toEqual([{ filename: file, contentType: 'text/csv' }])
     const { fileStore } = await import('../../server/utils/fileStore')
     const csv = (await fileStore().get(row.attachments![0]!.sha256))!.toString('utf8')
     const lines = csv.replace(/^\uFEFF/, '').trim().split('\r\n')

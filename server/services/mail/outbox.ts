@@ -231,5 +231,6 @@ export function outboxDTO(row: OutboxMessage): OutboxMessageDTO {
     nextAttemptAt: row.nextAttemptAt ? row.nextAttemptAt.toISOString() : null,
     sentAt: row.sentAt ? row.sentAt.toISOString() : null,
     createdAt: row.createdAt.toISOString(),
+    attachments: (row.attachments ?? []).map(a => ({ filename: a.filename, contentType: a.contentType })),
   }
 }
