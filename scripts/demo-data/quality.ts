@@ -37,6 +37,7 @@ import { createCheckPlanIn, recordCheckIn } from '#server/services/checks/checks
 import { investigateComplaintIn, proposeOutcomeIn, submitComplaintIn } from '#server/services/complaints/complaints'
 import { markActionItemDoneIn, openCorrectiveActionIn } from '#server/services/correctiveActions/correctiveActions'
 import { recordProficiencyIn } from '#server/services/proficiency/proficiency'
+import { readTogether } from '#server/utils/db'
 
 const C = (celsius: number) => Math.round((celsius + 273.15) * 100) / 100
 
@@ -117,8 +118,8 @@ const sessionOf = (u: User): SessionUser => ({ id: u.id, name: u.name, email: u.
 /** Make sure the demo quality records exist; returns the number of records created. */
 export async function seedQuality(t: Transaction): Promise<number> {
   let created = 0
-  const [tech, quality, customer] = await Promise.all(['technician@bandlight.test', 'quality@bandlight.test', 'customer@bandlight.test']
-    .map(email => User.findOne({ where: { email }, transaction: t })))
+  const [tech, quality, customer] = await readTogether(t, ['technician@bandlight.test', 'quality@bandlight.test', 'customer@bandlight.test']
+    .map(email => () => User.findOne({ where: { email }, transaction: t })))
   if (!tech || !quality || !customer) return 0
 
   for (const spec of PLANS) {

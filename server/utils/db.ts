@@ -148,3 +148,19 @@ export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise
 export async function closeDatabase(): Promise<void> {
   await sequelize.close()
 }
+
+/**
+ * Several reads, at once when there is no transaction, one after another inside one. A transaction
+ * is one database connection, and a connection runs one statement at a time: reads "at once" in a
+ * transaction only wait in the driver's queue (pg 8 warns of it as deprecated; pg 9 refuses it).
+ * @param t - the transaction the reads run in, if any
+ * @param reads - each read as a function, started only when its turn comes
+ * @returns what the reads return, in their order
+ */
+export async function readTogether<const R extends readonly (() => unknown)[]>(t: Transaction | null | undefined, reads: R): Promise<{ -readonly [K in keyof R]: Awaited<ReturnType<R[K]>> }> {
+  type Out = { -readonly [K in keyof R]: Awaited<ReturnType<R[K]>> }
+  if (!t) return await Promise.all(reads.map(read => read())) as Out
+  const out: unknown[] = []
+  for (const read of reads) out.push(await read())
+  return out as Out
+}

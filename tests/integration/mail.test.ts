@@ -274,9 +274,15 @@ describe('a long reminder', () => {
 describe('the outbox', () => {
   it('keeps messages queued while SMTP is down and delivers each exactly once when it returns', async () => {
     await sink.close()
-    const queued = await db.sequelize.transaction(async t => Promise.all([1, 2, 3].map(n => outbox.queueMail(t, {
-      kind: 'request-received', to: [`outage${n}@ashgrove.example`], subject: `Outage test ${n}`, text: `Message ${n}`, html: null, dedupeKey: `outage-${n}`,
-    }))))
+    const queued = await db.sequelize.transaction(async (t) => {
+      const rows = []
+      for (const n of [1, 2, 3]) {
+        rows.push(await outbox.queueMail(t, {
+          kind: 'request-received', to: [`outage${n}@ashgrove.example`], subject: `Outage test ${n}`, text: `Message ${n}`, html: null, dedupeKey: `outage-${n}`,
+        }))
+      }
+      return rows
+    })
     const t0 = new Date()
     const down = await outbox.sendQueued({ now: t0 })
     expect(down).toEqual({ sent: 0, retried: 3, failed: 0 })

@@ -39,6 +39,7 @@ import { creditNotePdf, invoicePdf, linesDTO, storePdf } from './documents'
 import { notifyCreditNote, notifyInvoiceIssued, notifyPaymentReceived } from './mail'
 import { findOrder, orderWorkIn, workByInstrument } from './orders'
 import { currentPriceList } from './prices'
+import { readTogether } from '#server/utils/db'
 
 const DEFAULT_PAYMENT_TERMS_DAYS = 30
 
@@ -52,9 +53,9 @@ export interface Balance {
 
 /** Credits and payments against an invoice, and what is left to pay. */
 export async function balanceOf(invoice: Invoice, t?: Transaction): Promise<Balance> {
-  const [creditedMinor, paidMinor] = await Promise.all([
-    CreditNote.sum('grossMinor', { where: { invoiceId: invoice.id }, transaction: t }),
-    Payment.sum('amountMinor', { where: { invoiceId: invoice.id }, transaction: t }),
+  const [creditedMinor, paidMinor] = await readTogether(t, [
+    () => CreditNote.sum('grossMinor', { where: { invoiceId: invoice.id }, transaction: t }),
+    () => Payment.sum('amountMinor', { where: { invoiceId: invoice.id }, transaction: t }),
   ])
   const c = Number(creditedMinor) || 0
   const p = Number(paidMinor) || 0

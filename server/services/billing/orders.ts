@@ -29,6 +29,7 @@ import { assertVersion, conflict, invalidInput, notFound } from '#server/utils/e
 import { inTransaction } from '#server/utils/transaction'
 import { labTimeZone, labToday } from '#server/services/settings/today'
 import { notifyItemReceived, notifyOrderReturned } from './mail'
+import { readTogether } from '#server/utils/db'
 
 /** What the records say about one instrument of an order. */
 export interface OrderItemWork extends OrderItemFacts {
@@ -50,9 +51,9 @@ export interface OrderItemWork extends OrderItemFacts {
 export async function orderWorkIn(t: Transaction | undefined, order: Order): Promise<OrderItemWork[]> {
   const r = await CalibrationRequest.findByPk(order.requestId, { attributes: ['instrumentIds'], transaction: t })
   const instrumentIds = r?.instrumentIds ?? []
-  const [instruments, runs] = await Promise.all([
-    Instrument.findAll({ where: { id: instrumentIds }, attributes: ['id', 'serial', 'maker', 'model'], transaction: t }),
-    CalibrationRun.findAll({ where: { requestId: order.requestId, revisionOf: null }, order: [['id', 'ASC']], transaction: t }),
+  const [instruments, runs] = await readTogether(t, [
+    () => Instrument.findAll({ where: { id: instrumentIds }, attributes: ['id', 'serial', 'maker', 'model'], transaction: t }),
+    () => CalibrationRun.findAll({ where: { requestId: order.requestId, revisionOf: null }, order: [['id', 'ASC']], transaction: t }),
   ])
   const runOf = new Map<number, CalibrationRun>()
   for (const run of runs) {
@@ -61,10 +62,10 @@ export async function orderWorkIn(t: Transaction | undefined, order: Order): Pro
   }
   const runIds = [...runOf.values()].map(x => x.id)
   const [receipts, points, firsts] = runIds.length
-    ? await Promise.all([
-        ItemReceipt.findAll({ where: { runId: runIds }, transaction: t }),
-        RunPoint.findAll({ where: { runId: runIds }, attributes: ['runId', 'createdAt'], transaction: t }),
-        Certificate.findAll({ where: { runId: runIds, revision: 0 }, attributes: ['id', 'runId', 'baseNumber', 'issueDate'], transaction: t }),
+    ? await readTogether(t, [
+        () => ItemReceipt.findAll({ where: { runId: runIds }, transaction: t }),
+        () => RunPoint.findAll({ where: { runId: runIds }, attributes: ['runId', 'createdAt'], transaction: t }),
+        () => Certificate.findAll({ where: { runId: runIds, revision: 0 }, attributes: ['id', 'runId', 'baseNumber', 'issueDate'], transaction: t }),
       ])
     : [[] as ItemReceipt[], [] as RunPoint[], [] as Certificate[]]
   const revisions = firsts.length

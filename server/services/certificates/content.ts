@@ -30,6 +30,7 @@ import { loadRunContext, runEquation } from '#server/services/runs/context'
 import { IMAGER_SETTINGS_LABEL } from '#server/services/runs/workflow'
 import { basisStatement } from './basis'
 import type { CertificateData, CertificateEquation, CertificateEquipment, CertificateImager, CertificateRatio } from './pdf'
+import { readTogether } from '#server/utils/db'
 
 const lines = (s: string | null | undefined) => (s ?? '').split(/\r?\n/).map(l => l.trim()).filter(Boolean)
 
@@ -87,11 +88,11 @@ export async function gather(t: Transaction | undefined, settings: LabSettings, 
 
   const sourceIds = [...new Set(points.map(p => p.sourceId))]
   const refIds = [...new Set([...points.map(p => p.referenceInstrumentId), run.ambientInstrumentId].filter((v): v is number => !!v))]
-  const [sources, refs, sourceCals, refCals] = await Promise.all([
-    BlackbodySource.findAll({ where: { id: sourceIds }, transaction: t }),
-    refIds.length ? ReferenceInstrument.findAll({ where: { id: refIds }, transaction: t }) : [],
-    calibrationsOf('source', sourceIds, t),
-    calibrationsOf('reference', refIds, t),
+  const [sources, refs, sourceCals, refCals] = await readTogether(t, [
+    () => BlackbodySource.findAll({ where: { id: sourceIds }, transaction: t }),
+    () => refIds.length ? ReferenceInstrument.findAll({ where: { id: refIds }, transaction: t }) : [],
+    () => calibrationsOf('source', sourceIds, t),
+    () => calibrationsOf('reference', refIds, t),
   ])
   // The external calibration in force on the calibration date (the latest one before it).
   const inForce = (list: { calibrationDate: string, certificateNumber: string, provider: string }[] | undefined) =>

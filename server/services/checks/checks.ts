@@ -29,13 +29,14 @@ import { nonconformityDTOs } from '#server/services/nonconformities/nonconformit
 import { affectedPeriod, raiseNonconformityIn, takeOutOfServiceIn } from '#server/services/nonconformities/raise'
 import { equipmentTags, findEquipment, userNames } from '#server/services/quality/records'
 import { labToday } from '#server/services/settings/today'
+import { readTogether } from '#server/utils/db'
 
 /** Plans with their last check, next due date and due state (lab-local `today`). */
 export async function checkPlanDTOs(plans: CheckPlan[], today: string, t?: Transaction): Promise<CheckPlanDTO[]> {
   if (!plans.length) return []
-  const [results, tags] = await Promise.all([
-    CheckResult.findAll({ where: { planId: plans.map(p => p.id) }, attributes: ['planId', 'checkedOn', 'verdict', 'id'], order: [['checkedOn', 'DESC'], ['id', 'DESC']], transaction: t }),
-    equipmentTags(plans.map(p => ({ type: p.equipmentType, id: p.equipmentId })), t),
+  const [results, tags] = await readTogether(t, [
+    () => CheckResult.findAll({ where: { planId: plans.map(p => p.id) }, attributes: ['planId', 'checkedOn', 'verdict', 'id'], order: [['checkedOn', 'DESC'], ['id', 'DESC']], transaction: t }),
+    () => equipmentTags(plans.map(p => ({ type: p.equipmentType, id: p.equipmentId })), t),
   ])
   const last = new Map<number, CheckResult>()
   for (const r of results) if (!last.has(r.planId)) last.set(r.planId, r)
@@ -69,11 +70,11 @@ export async function checkPlanDTOs(plans: CheckPlan[], today: string, t?: Trans
 
 export async function checkResultDTOs(rows: CheckResult[], t?: Transaction): Promise<CheckResultDTO[]> {
   if (!rows.length) return []
-  const [plans, tags, names, ncs] = await Promise.all([
-    CheckPlan.findAll({ where: { id: [...new Set(rows.map(r => r.planId))] }, attributes: ['id', 'title'], transaction: t }),
-    equipmentTags(rows.map(r => ({ type: r.equipmentType, id: r.equipmentId })), t),
-    userNames(rows.map(r => r.performedBy), t),
-    Nonconformity.findAll({ where: { id: rows.map(r => r.nonconformityId).filter((v): v is number => !!v) }, attributes: ['id', 'number'], transaction: t }),
+  const [plans, tags, names, ncs] = await readTogether(t, [
+    () => CheckPlan.findAll({ where: { id: [...new Set(rows.map(r => r.planId))] }, attributes: ['id', 'title'], transaction: t }),
+    () => equipmentTags(rows.map(r => ({ type: r.equipmentType, id: r.equipmentId })), t),
+    () => userNames(rows.map(r => r.performedBy), t),
+    () => Nonconformity.findAll({ where: { id: rows.map(r => r.nonconformityId).filter((v): v is number => !!v) }, attributes: ['id', 'number'], transaction: t }),
   ])
   const title = new Map(plans.map(p => [p.id, p.title]))
   const ncNumber = new Map(ncs.map(n => [n.id, n.number]))

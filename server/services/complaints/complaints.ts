@@ -26,16 +26,17 @@ import { correctiveActionDTOs } from '#server/services/correctiveActions/correct
 import { notifyComplaintClosed, notifyComplaintReceived } from '#server/services/mail/events'
 import { iso, nextRecordNumber, userNames } from '#server/services/quality/records'
 import { labToday } from '#server/services/settings/today'
+import { readTogether } from '#server/utils/db'
 
 export async function complaintDTOs(rows: Complaint[], viewer: Pick<SessionUser, 'role'>, t?: Transaction): Promise<ComplaintDTO[]> {
   if (!rows.length) return []
   const lab = viewer.role !== 'customer'
   const ids = (k: 'organizationId' | 'certificateId' | 'instrumentId') => [...new Set(rows.map(r => r[k]).filter((v): v is number => !!v))]
-  const [orgs, certs, instruments, names] = await Promise.all([
-    ids('organizationId').length ? Organization.findAll({ where: { id: ids('organizationId') }, attributes: ['id', 'name'], transaction: t }) : [],
-    ids('certificateId').length ? Certificate.findAll({ where: { id: ids('certificateId') }, attributes: ['id', 'number'], transaction: t }) : [],
-    ids('instrumentId').length ? Instrument.findAll({ where: { id: ids('instrumentId') }, attributes: ['id', 'serial'], transaction: t }) : [],
-    userNames(rows.flatMap(r => [r.submittedBy, r.investigatedBy, r.outcomeProposedBy, r.approvedBy]), t),
+  const [orgs, certs, instruments, names] = await readTogether(t, [
+    () => ids('organizationId').length ? Organization.findAll({ where: { id: ids('organizationId') }, attributes: ['id', 'name'], transaction: t }) : [],
+    () => ids('certificateId').length ? Certificate.findAll({ where: { id: ids('certificateId') }, attributes: ['id', 'number'], transaction: t }) : [],
+    () => ids('instrumentId').length ? Instrument.findAll({ where: { id: ids('instrumentId') }, attributes: ['id', 'serial'], transaction: t }) : [],
+    () => userNames(rows.flatMap(r => [r.submittedBy, r.investigatedBy, r.outcomeProposedBy, r.approvedBy]), t),
   ])
   const org = new Map(orgs.map(o => [o.id, o.name]))
   const cert = new Map(certs.map(c => [c.id, c.number]))

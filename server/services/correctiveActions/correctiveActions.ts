@@ -19,6 +19,7 @@ import { inTransaction } from '#server/utils/transaction'
 import { auditTrail } from '#server/services/audit/trail'
 import { labToday } from '#server/services/settings/today'
 import { iso, nextRecordNumber, userNames } from '#server/services/quality/records'
+import { readTogether } from '#server/utils/db'
 
 /** Corrective actions as the API returns them, with their items, links and names. */
 export async function correctiveActionDTOs(rows: CorrectiveAction[], today?: string, t?: Transaction): Promise<CorrectiveActionDTO[]> {
@@ -27,10 +28,10 @@ export async function correctiveActionDTOs(rows: CorrectiveAction[], today?: str
   const items = await CorrectiveActionItem.findAll({ where: { correctiveActionId: rows.map(r => r.id) }, order: [['dueDate', 'ASC'], ['id', 'ASC']], transaction: t })
   const ncIds = rows.map(r => r.nonconformityId).filter((v): v is number => !!v)
   const cpIds = rows.map(r => r.complaintId).filter((v): v is number => !!v)
-  const [ncs, cps, names] = await Promise.all([
-    ncIds.length ? Nonconformity.findAll({ where: { id: ncIds }, attributes: ['id', 'number'], transaction: t }) : [],
-    cpIds.length ? Complaint.findAll({ where: { id: cpIds }, attributes: ['id', 'number'], transaction: t }) : [],
-    userNames([...rows.flatMap(r => [r.openedBy, r.effectivenessCheckedBy, r.closedBy]), ...items.flatMap(i => [i.ownerId, i.doneBy])], t),
+  const [ncs, cps, names] = await readTogether(t, [
+    () => ncIds.length ? Nonconformity.findAll({ where: { id: ncIds }, attributes: ['id', 'number'], transaction: t }) : [],
+    () => cpIds.length ? Complaint.findAll({ where: { id: cpIds }, attributes: ['id', 'number'], transaction: t }) : [],
+    () => userNames([...rows.flatMap(r => [r.openedBy, r.effectivenessCheckedBy, r.closedBy]), ...items.flatMap(i => [i.ownerId, i.doneBy])], t),
   ])
   const ncNumber = new Map(ncs.map(n => [n.id, n.number]))
   const cpNumber = new Map(cps.map(c => [c.id, c.number]))

@@ -29,6 +29,7 @@ import { Instrument } from '#server/models/Instrument'
 import { RunPoint } from '#server/models/RunPoint'
 import { notFound } from '#server/utils/errors'
 import { equipmentLabel, findEquipment } from '#server/services/quality/records'
+import { readTogether } from '#server/utils/db'
 
 const CHUNK = 500
 
@@ -193,9 +194,9 @@ export async function affectedWork(type: EquipmentType, id: number, from: string
  * there is none. Work on that date itself counts as affected (the time of day is not recorded).
  */
 export async function lastGoodEvidence(type: EquipmentType, id: number, before: string, t?: Transaction): Promise<string | null> {
-  const [check, cal] = await Promise.all([
-    CheckResult.findOne({ where: { equipmentType: type, equipmentId: id, verdict: 'pass', checkedOn: { [Op.lt]: before } }, order: [['checkedOn', 'DESC']], attributes: ['checkedOn'], transaction: t }),
-    EquipmentCalibration.findOne({ where: { equipmentType: type, equipmentId: id, calibrationDate: { [Op.lt]: before } }, order: [['calibrationDate', 'DESC']], attributes: ['calibrationDate'], transaction: t }),
+  const [check, cal] = await readTogether(t, [
+    () => CheckResult.findOne({ where: { equipmentType: type, equipmentId: id, verdict: 'pass', checkedOn: { [Op.lt]: before } }, order: [['checkedOn', 'DESC']], attributes: ['checkedOn'], transaction: t }),
+    () => EquipmentCalibration.findOne({ where: { equipmentType: type, equipmentId: id, calibrationDate: { [Op.lt]: before } }, order: [['calibrationDate', 'DESC']], attributes: ['calibrationDate'], transaction: t }),
   ])
   const dates = [check?.checkedOn, cal?.calibrationDate].filter((d): d is string => !!d).sort()
   return dates.length ? dates[dates.length - 1]! : null

@@ -30,11 +30,12 @@ import { affectedWork } from '#server/services/impact/impact'
 import { notifyNonconformity } from '#server/services/mail/events'
 import { equipmentTags, findEquipment, iso, userNames } from '#server/services/quality/records'
 import { raiseNonconformityIn } from './raise'
+import { readTogether } from '#server/utils/db'
 
 export async function nonconformityDTOs(rows: Nonconformity[], t?: Transaction): Promise<NonconformityDTO[]> {
-  const [names, tags] = await Promise.all([
-    userNames(rows.flatMap(r => [r.raisedBy, r.resumedBy, r.closedBy]), t),
-    equipmentTags(rows.map(r => ({ type: r.equipmentType, id: r.equipmentId })), t),
+  const [names, tags] = await readTogether(t, [
+    () => userNames(rows.flatMap(r => [r.raisedBy, r.resumedBy, r.closedBy]), t),
+    () => equipmentTags(rows.map(r => ({ type: r.equipmentType, id: r.equipmentId })), t),
   ])
   return rows.map(r => ({
     id: r.id,

@@ -18,6 +18,7 @@ import { inTransaction } from '#server/utils/transaction'
 import { nonconformityDTOs } from '#server/services/nonconformities/nonconformities'
 import { raiseNonconformityIn } from '#server/services/nonconformities/raise'
 import { userNames } from '#server/services/quality/records'
+import { readTogether } from '#server/utils/db'
 
 /** Engine field names → the API's. */
 const FIELDS: Record<string, string> = {
@@ -31,9 +32,9 @@ const FIELDS: Record<string, string> = {
 export async function proficiencyDTOs(rows: ProficiencyResult[], t?: Transaction): Promise<ProficiencyResultDTO[]> {
   if (!rows.length) return []
   const ncIds = rows.map(r => r.nonconformityId).filter((v): v is number => !!v)
-  const [names, ncs] = await Promise.all([
-    userNames(rows.map(r => r.recordedBy), t),
-    ncIds.length ? Nonconformity.findAll({ where: { id: ncIds }, attributes: ['id', 'number'], transaction: t }) : [],
+  const [names, ncs] = await readTogether(t, [
+    () => userNames(rows.map(r => r.recordedBy), t),
+    () => ncIds.length ? Nonconformity.findAll({ where: { id: ncIds }, attributes: ['id', 'number'], transaction: t }) : [],
   ])
   const ncNumber = new Map(ncs.map(n => [n.id, n.number]))
   return rows.map(r => ({

@@ -7,6 +7,7 @@ import type { EquipmentType } from '#shared/registers/constants'
 import { BlackbodySource } from '#server/models/BlackbodySource'
 import { ReferenceInstrument } from '#server/models/ReferenceInstrument'
 import { User } from '#server/models/User'
+import { readTogether } from '#server/utils/db'
 
 /**
  * The next number of a yearly series, `PREFIX-YYYY-NNN`, allocated in the caller's transaction
@@ -38,9 +39,9 @@ export async function findEquipment(type: EquipmentType, id: number, transaction
 /** Asset tags of equipment, keyed `source:12` / `reference:3`. */
 export async function equipmentTags(pairs: readonly { type: EquipmentType | null, id: number | null }[], transaction?: Transaction): Promise<Map<string, string>> {
   const of = (type: EquipmentType) => [...new Set(pairs.filter(p => p.type === type && p.id !== null).map(p => p.id!))]
-  const [sources, refs] = await Promise.all([
-    of('source').length ? BlackbodySource.findAll({ where: { id: of('source') }, attributes: ['id', 'assetTag'], transaction }) : [],
-    of('reference').length ? ReferenceInstrument.findAll({ where: { id: of('reference') }, attributes: ['id', 'assetTag'], transaction }) : [],
+  const [sources, refs] = await readTogether(transaction, [
+    () => of('source').length ? BlackbodySource.findAll({ where: { id: of('source') }, attributes: ['id', 'assetTag'], transaction }) : [],
+    () => of('reference').length ? ReferenceInstrument.findAll({ where: { id: of('reference') }, attributes: ['id', 'assetTag'], transaction }) : [],
   ])
   return new Map([...sources.map(s => [`source:${s.id}`, s.assetTag] as const), ...refs.map(r => [`reference:${r.id}`, r.assetTag] as const)])
 }
