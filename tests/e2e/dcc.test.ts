@@ -33,6 +33,8 @@ describe('digital calibration certificates', () => {
     expect(await page.getByTestId('download-dcc').getAttribute('href')).toBe(`/api/certificates/${cert.id}/dcc`)
 
     await page.goto(`${BASE_URL}/reference-instruments/${ref.id}`)
+    // A click before the page has hydrated does nothing (the button's handler is not attached yet): let its scripts load first.
+    await page.waitForLoadState('networkidle')
     await page.getByTestId('import-dcc').click()
     // A file that is not a DCC is refused, naming the file.
     await page.getByTestId('dcc-file').setInputFiles({ name: 'notes.xml', mimeType: 'application/xml', buffer: Buffer.from('<?xml version="1.0"?><notes><n>1</n></notes>') })
